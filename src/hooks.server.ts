@@ -1,0 +1,89 @@
+import { building } from '$app/environment';
+import { json, redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { startApp } from '$lib/server/app';
+import { loadConfig } from '$lib/server/config';
+import { context, maybeContext } from '$lib/server/context';
+import { readSession } from '$lib/server/auth/session';
+import { userIdForToken } from '$lib/server/auth/tokens';
+import { routeInScope } from '$lib/server/auth/guard';
+import * as users from '$lib/server/users/repository';
+import { DEMO_USERS } from '$lib/server/demo/fleet';
+
+export const init: ServerInit = async () => {
+	if (building || maybeContext()) return; // vite dev re-runs init after edits: keep what runs
+	const config = loadConfig();
+	const ctx = await startApp(config);
+	process.once('sveltekit:shutdown', () => void ctx.stop());
+	const origin = config.ORIGIN ?? `http://localhost:${process.env.PORT ?? 3000}`;
+	console.log(`[aftwater] ready at ${origin}`);
+	if (config.DEMO) {
+		console.log(`[aftwater] demo sign-ins (password "${config.DEMO_PASSWORD}"):`);
+		for (const u of DEMO_USERS) console.log(`[aftwater]   ${u.email.padEnd(18)} ${u.role}`);
+	}
+};
+
+/** Paths anyone may open without signing in. */
+function isPublic(path: string): boolean {
+	return (
+		path === '/login' ||
+		path === '/api/health' ||
+		path === '/api/auth/login' ||
+		path.startsWith('/account/') || // invitation and password-reset links
+		path.startsWith('/api/account/')
+	);
+}
+
+const authenticate: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.session = null;
+	const { db, lucia } = context();
+
+	const header = event.request.headers.get('authorization');
+	if (header?.startsWith('Bearer ')) {
+		const userId = await userIdForToken(db, header.slice(7).trim());
+		const row = userId ? await users.findById(db, userId) : undefined;
+		if (row && row.disabled_at === null) event.locals.user = await users.toAppUser(db, row);
+	} else {
+		const { session, user } = await readSession(lucia, event.cookies, event.url);
+		if (session && user && user.disabled_at === null) {
+			const row = await users.findById(db, user.id);
+			if (row) {
+				event.locals.session = session;
+				event.locals.user = await users.toAppUser(db, row);
+			}
+		} else if (session) {
+			await lucia.invalidateSession(session.id); // a disabled account loses its sessions
+		}
+	}
+	return resolve(event);
+};
+
+const protect: Handle = async ({ event, resolve }) => {
+	const path = event.url.pathname;
+	const isApi = path.startsWith('/api/');
+	const user = event.locals.user;
+	if (!isPublic(path) && !user) {
+		if (isApi) {
+			return json({ error: { code: 'unauthorized', message: 'sign in first' } }, { status: 401 });
+		}
+		if (event.route.id) {
+			redirect(303, `/login?next=${encodeURIComponent(path + event.url.search)}`);
+		}
+	}
+	// Vessel scope, for every route whose path names a vessel, shaft or alarm.
+	if (user && !(await routeInScope(context().db, user, event.params))) {
+		if (isApi) {
+			return json({ error: { code: 'not_found', message: 'not found' } }, { status: 404 });
+		}
+		return new Response('Not found', { status: 404, headers: { 'content-type': 'text/plain' } });
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(authenticate, protect);
+
+export const handleError: HandleServerError = ({ error, event, status }) => {
+	if (status !== 404) console.error(`[aftwater] ${event.request.method} ${event.url.pathname}:`, error);
+	return { message: status === 404 ? 'Not found' : 'Something went wrong on the server', code: String(status) };
+};

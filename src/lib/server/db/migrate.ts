@@ -1,0 +1,27 @@
+import { Migrator, type Kysely, type Migration, type MigrationProvider } from 'kysely';
+
+/** Runs every pending migration; throws with the failing migration's name. */
+export async function migrateToLatest(db: Kysely<any>, provider: MigrationProvider): Promise<string[]> {
+	const migrator = new Migrator({ db, provider });
+	const { error, results } = await migrator.migrateToLatest();
+	const failed = results?.find((r) => r.status === 'Error');
+	if (error || failed) {
+		const name = failed ? ` in ${failed.migrationName}` : '';
+		throw new Error(`database migration failed${name}: ${String(error)}`, { cause: error });
+	}
+	return (results ?? []).map((r) => r.migrationName);
+}
+
+/** A provider from modules already loaded (by import.meta.glob or by hand). */
+export function providerFrom(modules: Record<string, Migration>): MigrationProvider {
+	return {
+		async getMigrations() {
+			const out: Record<string, Migration> = {};
+			for (const [path, mod] of Object.entries(modules)) {
+				const name = path.split('/').pop()!.replace(/\.[jt]s$/, '');
+				out[name] = mod;
+			}
+			return out;
+		}
+	};
+}

@@ -1,0 +1,102 @@
+/** Managing users: what the admin pages and the API both call. */
+import { ApiError } from '../api/errors';
+import { audit, type Actor } from '../audit';
+import type { AppContext } from '../context';
+import { hashSecret, verifySecret } from '../auth/password';
+import type { UserCreate, UserUpdate } from '$lib/schemas/users';
+import * as users from './repository';
+import { ONBOARD_ROLES } from '$lib/types';
+
+async function checkVessels(ctx: AppContext, ids: number[]) {
+	if (!ids.length) return;
+	const found = await ctx.db.selectFrom('vessels').select('id').where('id', 'in', ids).execute();
+	const missing = ids.filter((id) => !found.some((f) => f.id === id));
+	if (missing.length) {
+		throw new ApiError(422, 'invalid', `vessel_ids: no vessel ${missing.join(', ')}`, {
+			vessel_ids: `no vessel ${missing.join(', ')}`
+		});
+	}
+}
+
+export async function createUser(ctx: AppContext, actor: Actor, input: UserCreate) {
+	if (await users.findByEmail(ctx.db, input.email)) {
+		throw new ApiError(409, 'conflict', `a user with e-mail ${input.email} exists`, {
+			email: 'already in use'
+		});
+	}
+	const vesselIds = [...new Set(input.vessel_ids)];
+	await checkVessels(ctx, vesselIds);
+	if (ONBOARD_ROLES.includes(input.role) && vesselIds.length === 0) {
+		throw new ApiError(422, 'invalid', 'vessel_ids: an on-board role needs at least one vessel', {
+			vessel_ids: 'an on-board role needs at least one vessel'
+		});
+	}
+	const id = await users.create(ctx.db, {
+		email: input.email,
+		name: input.name,
+		role: input.role,
+		passwordHash: input.password ? await hashSecret(input.password) : null,
+		vesselIds
+	});
+	await audit(ctx.db, actor, {
+		action: 'user.create',
+		entity: 'user',
+		entityId: id,
+		details: { email: input.email, role: input.role, vessel_ids: vesselIds, with_password: !!input.password }
+	});
+	const row = await users.findById(ctx.db, id);
+	return users.toAppUser(ctx.db, row!);
+}
+
+export async function updateUser(ctx: AppContext, actor: Actor, id: string, input: UserUpdate) {
+	const row = await users.findById(ctx.db, id);
+	if (!row) throw new ApiError(404, 'not_found', 'user not found');
+	if (actor.userId === id && (input.disabled || (input.role && input.role !== row.role))) {
+		throw new ApiError(409, 'conflict', 'you cannot disable yourself or change your own role');
+	}
+	const before = await users.toAppUser(ctx.db, row);
+	if (input.vessel_ids) {
+		await checkVessels(ctx, input.vessel_ids);
+		await users.setMemberships(ctx.db, id, [...new Set(input.vessel_ids)]);
+	}
+	const set: Record<string, unknown> = {};
+	if (input.name !== undefined) set.name = input.name;
+	if (input.role !== undefined) set.role = input.role;
+	if (input.disabled !== undefined) set.disabled_at = input.disabled ? Date.now() : null;
+	if (Object.keys(set).length) await ctx.db.updateTable('users').set(set).where('id', '=', id).execute();
+	if (input.disabled) await ctx.lucia.invalidateUserSessions(id);
+	await audit(ctx.db, actor, {
+		action: 'user.update',
+		entity: 'user',
+		entityId: id,
+		details: { email: row.email, before: { role: before.role, vessel_ids: before.vessel_ids, disabled: row.disabled_at !== null }, change: input }
+	});
+	return users.toAppUser(ctx.db, (await users.findById(ctx.db, id))!);
+}
+
+/** Sets a new password and signs the user out everywhere. */
+export async function setPassword(ctx: AppContext, actor: Actor, userId: string, password: string) {
+	await ctx.db
+		.updateTable('users')
+		.set({ password_hash: await hashSecret(password), password_changed_at: Date.now() })
+		.where('id', '=', userId)
+		.execute();
+	await ctx.lucia.invalidateUserSessions(userId);
+	await audit(ctx.db, actor, { action: 'user.password', entity: 'user', entityId: userId });
+}
+
+export async function changeOwnPassword(
+	ctx: AppContext,
+	actor: Actor,
+	userId: string,
+	current: string,
+	next: string
+) {
+	const row = await users.findById(ctx.db, userId);
+	if (!row?.password_hash || !(await verifySecret(row.password_hash, current))) {
+		throw new ApiError(422, 'invalid', 'current_password: not your current password', {
+			current_password: 'not your current password'
+		});
+	}
+	await setPassword(ctx, actor, userId, next);
+}

@@ -1,0 +1,18 @@
+import { json } from '@sveltejs/kit';
+import { z } from 'zod';
+import { readJson, route, userOf } from '$lib/server/api/handler';
+import { audit, actorOf } from '$lib/server/audit';
+import { context } from '$lib/server/context';
+import { issueToken, listTokens } from '$lib/server/auth/tokens';
+
+export const GET = route(async (event) => ({ tokens: await listTokens(context().db, userOf(event).id) }));
+
+/** A new API token for the caller; it acts with the caller's role and scope. Shown once. */
+export const POST = route(async (event) => {
+	const user = userOf(event);
+	const { name } = await readJson(event.request, z.object({ name: z.string().trim().min(1).max(80) }));
+	const ctx = context();
+	const { id, token } = await issueToken(ctx.db, user.id, name);
+	await audit(ctx.db, actorOf(user), { action: 'token.issue', entity: 'api_token', entityId: id, details: { name } });
+	return json({ id, name, token }, { status: 201, headers: { 'cache-control': 'no-store' } });
+});

@@ -1,0 +1,13 @@
+import { redirect } from '@sveltejs/kit';
+import type { Actions, PageServerLoad } from './$types';
+import { context } from '$lib/server/context';
+import { endSession } from '$lib/server/auth/session';
+
+export const load: PageServerLoad = () => redirect(303, '/');
+
+export const actions: Actions = {
+	default: async ({ locals, cookies, url }) => {
+		if (locals.session) await endSession(context().lucia, locals.session.id, cookies, url);
+		redirect(303, '/login');
+	}
+};
