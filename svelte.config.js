@@ -5,7 +5,13 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter()
+		adapter: adapter(),
+		typescript: {
+			// type-check the simulator, migrations and benchmarks with the app
+			config: (config) => {
+				config.include.push('../simulator/**/*.ts', '../migrations/**/*.ts');
+			}
+		}
 	}
 };
 

@@ -3,6 +3,7 @@
  * the long-lived parts. Called from `init` in hooks.server.ts, and directly by
  * integration tests, which start a whole app on a temporary file and ports.
  */
+import type { MigrationProvider } from 'kysely';
 import type { Config } from './config';
 import { createKysely, openSqlite } from './db/connection';
 import { bundledMigrations } from './db/bundled-migrations';
@@ -17,6 +18,8 @@ import { EventBus } from './events';
 export interface StartOptions {
 	/** quiet start-up (tests) */
 	quiet?: boolean;
+	/** where migrations come from; the Vite-bundled ones by default (tsx scripts pass fileMigrations()) */
+	migrations?: MigrationProvider;
 }
 
 export async function startApp(config: Config, options: StartOptions = {}): Promise<AppContext> {
@@ -25,7 +28,7 @@ export async function startApp(config: Config, options: StartOptions = {}): Prom
 	const db = createKysely(sqlite);
 	const stack: Stoppable[] = [];
 	try {
-		const applied = await migrateToLatest(db, bundledMigrations);
+		const applied = await migrateToLatest(db, options.migrations ?? bundledMigrations());
 		if (applied.length) log(`migrated: ${applied.join(', ')}`);
 		if (config.DEMO) await seedDemo(db, config.DEMO_PASSWORD);
 		if ((await seedAdmin(db, config)) === 'created') log(`created administrator ${config.ADMIN_EMAIL}`);

@@ -25,3 +25,15 @@ export function providerFrom(modules: Record<string, Migration>): MigrationProvi
 		}
 	};
 }
+
+/** The migration files read from /migrations at run time (for scripts run by tsx). */
+export async function fileMigrations(): Promise<MigrationProvider> {
+	const { promises: fs } = await import('node:fs');
+	const path = await import('node:path');
+	const { FileMigrationProvider } = await import('kysely');
+	return new FileMigrationProvider({
+		fs,
+		path,
+		migrationFolder: path.resolve(import.meta.dirname, '../../../../migrations')
+	});
+}

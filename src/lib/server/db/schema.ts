@@ -1,10 +1,16 @@
 /**
  * The Database interface Kysely checks every query against. One `XTable`
  * interface per table; `Generated<>` marks columns the database fills in.
- * Later concerns add their tables here beside the migration that creates them.
+ * Later concerns add their tables in db/tables/<concern>.ts, beside the
+ * migration in /migrations that creates them.
  */
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 import type { OperatingMode, Role, ShaftPosition, UnitSystem, WaterKind } from '$lib/types';
+import type { TelemetryTables } from './tables/telemetry';
+import type { AlarmsTables } from './tables/alarms';
+import type { MailTables } from './tables/mail';
+import type { PurgeTables } from './tables/purge';
+import type { HistoryTables } from './tables/history';
 
 /** epoch milliseconds */
 export type EpochMs = number;
@@ -89,7 +95,13 @@ export interface AuditLogTable {
 	details: string | null;
 }
 
-export interface Database {
+/** Every table: the foundation's here, each later concern's in db/tables/<concern>.ts. */
+export interface Database
+	extends TelemetryTables,
+		AlarmsTables,
+		MailTables,
+		PurgeTables,
+		HistoryTables {
 	users: UsersTable;
 	sessions: SessionsTable;
 	vessels: VesselsTable;

@@ -1,0 +1,3 @@
+/** Tables of the history concern (created by its migration in /migrations). */
+// eslint-disable-next-line @typescript-eslint/no-empty-object-type
+export interface HistoryTables {}
