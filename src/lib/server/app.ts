@@ -12,6 +12,7 @@ import { createLucia } from './auth/lucia';
 import { createSignInThrottles } from './auth/throttle';
 import { seedAdmin, seedDemo } from './demo/seed';
 import { setContext, type AppContext } from './context';
+import { startParts } from './parts';
 import type { Services, Stoppable } from './services';
 import { EventBus } from './events';
 
@@ -44,7 +45,7 @@ export async function startApp(config: Config, options: StartOptions = {}): Prom
 			events: new EventBus(),
 			startedAt: Date.now(),
 			async stop() {
-				for (const part of stack.reverse()) {
+				for (const part of [...stack].reverse()) {
 					try {
 						await part.stop();
 					} catch (err) {
@@ -56,10 +57,12 @@ export async function startApp(config: Config, options: StartOptions = {}): Prom
 			}
 		};
 		setContext(ctx);
+		await startParts(ctx, stack);
 		return ctx;
 	} catch (err) {
-		for (const part of stack.reverse()) await part.stop();
+		for (const part of [...stack].reverse()) await part.stop();
 		await db.destroy();
+		setContext(undefined);
 		throw err;
 	}
 }
