@@ -8,15 +8,28 @@ export async function healthReport(ctx: AppContext) {
 	} catch {
 		database = 'error';
 	}
+	const telemetry = ctx.services.telemetry;
+	const stats = telemetry?.pipeline.stats;
+	const connected = telemetry?.source.connected() ?? false;
 	return {
-		status: database === 'ok' ? 'ok' : 'degraded',
+		status: database === 'ok' && connected ? 'ok' : 'degraded',
 		version: 1,
 		uptime_s: Math.round((Date.now() - ctx.startedAt) / 1000),
 		database,
 		ingest: {
-			received_total: 0,
-			stored_total: 0,
-			rejected_total: 0
+			received_total: stats?.received_total ?? 0,
+			stored_total: stats?.stored_total ?? 0,
+			rejected_total: stats?.rejected_total ?? 0,
+			duplicate_total: stats?.duplicate_total ?? 0,
+			rejected_by_reason: stats?.rejected_by_reason ?? {},
+			rate_per_s: stats?.rate() ?? 0,
+			write_lag_ms: Math.round(stats?.write_lag_ms ?? 0),
+			write_lag_p99_ms: Math.round(stats?.lagPercentile(99) ?? 0)
+		},
+		broker: {
+			kind: telemetry?.source.kind ?? null,
+			connected,
+			clients: telemetry?.broker?.clientCount() ?? null
 		}
 	};
 }
