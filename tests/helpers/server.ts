@@ -41,6 +41,8 @@ export async function startServer(env: Record<string, string> = {}): Promise<Tes
 		MQTT_HOST: '127.0.0.1',
 		MQTT_PORT: String(await freePort()),
 		SMTP_PORT: String(await freePort()),
+		// as `npm start` sets it: logger uploads are larger than adapter-node's 512 kB default
+		BODY_SIZE_LIMIT: '25M',
 		...env
 	};
 	let child: ChildProcess;

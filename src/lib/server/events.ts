@@ -4,12 +4,15 @@
  * live view. Typed so a listener cannot misread a payload.
  */
 import { EventEmitter } from 'node:events';
+import type { AlarmTransition } from './alarms/store';
 
 export interface AppEvents {
 	/** a vessel's or shaft's configuration changed (codes, diameters, settings) */
 	'config.changed': { vesselId: number };
 	/** a gateway's credentials were issued or rotated */
 	'gateway.changed': { vesselId: number; username: string };
+	/** an alarm instance changed state (stored; the outbox has its mail) */
+	'alarm.changed': AlarmTransition;
 }
 
 type Listener<K extends keyof AppEvents> = (payload: AppEvents[K]) => void;

@@ -29,6 +29,9 @@ export const SCOPE_RESOLVERS: Record<string, Resolver> = {
 		(await db.selectFrom('vessels').select('id').where('id', '=', id).executeTakeFirst())?.id,
 	shaftId: async (db, id) =>
 		(await db.selectFrom('shafts').select('vessel_id').where('id', '=', id).executeTakeFirst())
+			?.vessel_id,
+	alarmId: async (db, id) =>
+		(await db.selectFrom('alarms').select('vessel_id').where('id', '=', id).executeTakeFirst())
 			?.vessel_id
 };
 
