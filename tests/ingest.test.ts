@@ -201,7 +201,7 @@ describe('who may publish and subscribe', () => {
 	it('a gateway cannot write into another vessel', async () => {
 		const gw = await connectGateway(app.mqttPort, 'corrin-bay');
 		const before = await count(otherShaftId);
-		const closed = new Promise((r) => gw.once('close', r));
+		const closed = new Promise<void>((r) => gw.once('close', () => r()));
 		gw.publish(telemetry('hallow-tern', 'main'), JSON.stringify({ ts: Date.now(), flow_lpm: 5 }), { qos: 1 });
 		await closed; // the broker drops a client that publishes where it may not
 		await pipeline().drain();
@@ -216,7 +216,7 @@ describe('who may publish and subscribe', () => {
 		// SUBACK return code 0x80 (failure), which MQTT.js reports as an error
 		await expect(gw.subscribeAsync(`${PREFIX}/hallow-tern/separator/command`, { qos: 1 })).rejects.toThrow(/Subscribe error/);
 		await expect(gw.subscribeAsync(`${PREFIX}/#`, { qos: 1 })).rejects.toThrow(/Subscribe error/);
-		const closed = new Promise((r) => gw.once('close', r));
+		const closed = new Promise<void>((r) => gw.once('close', () => r()));
 		gw.publish(`${PREFIX}/corrin-bay/separator/command`, '{"id":"x","action":"purge","duration_s":5}', { qos: 1 });
 		await closed;
 		gw.end(true);

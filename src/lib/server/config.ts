@@ -37,6 +37,8 @@ const schema = z.object({
 	MAIL_FROM: z.string().default('Aftwater <aftwater@localhost>'),
 
 	SIMULATOR: z.enum(['on', 'off', '1', '0', 'auto']).default('auto'),
+	/** evaluate alarm rules on ingest (off only to measure their cost in bench:ingest) */
+	ALARM_RULES: flag.default(true),
 
 	INGEST_FLUSH_MS: z.coerce.number().int().min(5).max(5_000).default(200),
 	INGEST_BATCH_SIZE: z.coerce.number().int().min(1).max(50_000).default(5_000),
@@ -45,7 +47,20 @@ const schema = z.object({
 	/** Largest MQTT payload the ingest parses; anything bigger is rejected unread. */
 	MAX_PAYLOAD_BYTES: z.coerce.number().int().min(256).max(1_048_576).default(4_096),
 	/** How far ahead of the server's clock a sample's ts may be. */
-	MAX_FUTURE_SKEW_S: z.coerce.number().int().min(0).max(86_400).default(300)
+	MAX_FUTURE_SKEW_S: z.coerce.number().int().min(0).max(86_400).default(300),
+
+	/** First retry delay of an undelivered e-mail; each further attempt waits twice as long. */
+	MAIL_RETRY_BASE_MS: z.coerce.number().int().min(1).max(3_600_000).default(5_000),
+	/** Longest wait between two delivery attempts (10 min). */
+	MAIL_RETRY_MAX_MS: z.coerce.number().int().min(1).max(86_400_000).default(600_000),
+	/** Attempts before a message is marked failed (16 ≈ 1 h 30 min of retrying at the defaults). */
+	MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(1_000).default(16),
+	/** How often the delivery worker looks for due mail when nothing nudged it. */
+	MAIL_POLL_MS: z.coerce.number().int().min(10).max(600_000).default(5_000),
+	/** Largest message the local SMTP sink accepts (bytes). */
+	MAIL_SINK_MAX_BYTES: z.coerce.number().int().min(1_024).max(52_428_800).default(10_485_760),
+	/** Messages the local sink keeps; older ones are deleted as new ones arrive. */
+	MAIL_SINK_KEEP: z.coerce.number().int().min(10).max(1_000_000).default(5_000)
 });
 
 export type Config = z.infer<typeof schema> & { mqttInternalPassword: string };

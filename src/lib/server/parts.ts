@@ -5,6 +5,10 @@
  */
 import type { AppContext } from './context';
 import type { Stoppable } from './services';
+import { startTelemetry } from './ingest/service';
+import { startAlarms } from './alarms/service';
+import { startDemoSimulator } from './demo/simulator';
+import { startMail } from './mail';
 
 export async function startParts(ctx: AppContext, started: Stoppable[]): Promise<void> {
 	const add = <T extends Stoppable>(part: T): T => {
@@ -12,10 +16,11 @@ export async function startParts(ctx: AppContext, started: Stoppable[]): Promise
 		return part;
 	};
 	void add; // each concern below uses it
-	// mail:      ctx.services.mail = add(await startMail(ctx));
-	// telemetry: broker, subscriber, writer (issue: telemetry)
-	// alarms:    rules engine fed by ingest, stale-data timer
+	ctx.services.mail = add(await startMail(ctx));
+	ctx.services.telemetry = add(await startTelemetry(ctx));
+	ctx.services.alarms = add(await startAlarms(ctx));
 	// purge:     node-cron jobs per separator
 	// live:      SSE fan-out hub
-	// simulator: demo gateways (only when DEMO and SIMULATOR allow)
+	const simulator = await startDemoSimulator(ctx);
+	if (simulator) add(simulator);
 }

@@ -2,9 +2,16 @@
  * The long-lived parts of a running Aftwater, each started once by startApp()
  * and stopped in reverse order on shutdown. Each concern adds its part here.
  */
+import type { MailService } from './mail';
+import type { TelemetryService } from './ingest/service';
+import type { AlarmService } from './alarms/service';
+
 export interface Stoppable {
 	stop(): Promise<void> | void;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-empty-object-type
-export interface Services {}
+export interface Services {
+	mail?: MailService;
+	telemetry?: TelemetryService;
+	alarms?: AlarmService;
+}

@@ -30,7 +30,8 @@ export const actions: Actions = {
 				result.reason === 'throttled'
 					? `Too many failed sign-ins. Try again in ${Math.ceil(result.retryAfterS / 60)} min.`
 					: 'Wrong e-mail or password.';
-			return fail(result.reason === 'throttled' ? 429 : 400, { email: values.email, errors: { _: message } });
+			const errors: Record<string, string> = { _: message };
+			return fail(result.reason === 'throttled' ? 429 : 400, { email: values.email, errors });
 		}
 		await startSession(ctx.lucia, result.userId, event.cookies, event.url);
 		redirect(303, safeNext(event.url.searchParams.get('next')));

@@ -6,6 +6,8 @@ import { hashSecret, verifySecret } from '../auth/password';
 import type { UserCreate, UserUpdate } from '$lib/schemas/users';
 import * as users from './repository';
 import { ONBOARD_ROLES } from '$lib/types';
+import { generateIdFromEntropySize } from 'lucia';
+import { queueInvitation } from '../account/links';
 
 async function checkVessels(ctx: AppContext, ids: number[]) {
 	if (!ids.length) return;
@@ -31,18 +33,50 @@ export async function createUser(ctx: AppContext, actor: Actor, input: UserCreat
 			vessel_ids: 'an on-board role needs at least one vessel'
 		});
 	}
-	const id = await users.create(ctx.db, {
-		email: input.email,
-		name: input.name,
-		role: input.role,
-		passwordHash: input.password ? await hashSecret(input.password) : null,
-		vesselIds
-	});
-	await audit(ctx.db, actor, {
-		action: 'user.create',
-		entity: 'user',
-		entityId: id,
-		details: { email: input.email, role: input.role, vessel_ids: vesselIds, with_password: !!input.password }
+	const passwordHash = input.password ? await hashSecret(input.password) : null;
+	const email = input.email.trim().toLowerCase();
+	// One transaction for the user and, without a password, their invitation:
+	// the e-mail is queued if and only if the user exists. The insert is
+	// written here rather than through users.create(), which opens its own
+	// transaction (Kysely transactions do not nest).
+	const id = generateIdFromEntropySize(10);
+	await ctx.db.transaction().execute(async (trx) => {
+		const now = Date.now();
+		await trx
+			.insertInto('users')
+			.values({
+				id,
+				email,
+				name: input.name,
+				role: input.role,
+				password_hash: passwordHash,
+				units: 'metric',
+				created_at: now,
+				password_changed_at: passwordHash ? now : null,
+				disabled_at: null
+			})
+			.execute();
+		if (vesselIds.length) {
+			await trx
+				.insertInto('vessel_members')
+				.values(vesselIds.map((vessel_id) => ({ user_id: id, vessel_id })))
+				.execute();
+		}
+		const invitationMailId = passwordHash
+			? null
+			: await queueInvitation(ctx, trx, { id, email, name: input.name, role: input.role }, actor);
+		await audit(trx, actor, {
+			action: 'user.create',
+			entity: 'user',
+			entityId: id,
+			details: {
+				email: input.email,
+				role: input.role,
+				vessel_ids: vesselIds,
+				with_password: !!input.password,
+				invitation_mail_id: invitationMailId
+			}
+		});
 	});
 	const row = await users.findById(ctx.db, id);
 	return users.toAppUser(ctx.db, row!);

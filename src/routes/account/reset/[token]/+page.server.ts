@@ -1,0 +1,8 @@
+import type { Actions, PageServerLoad } from './$types';
+import { loadTokenPage, setPasswordAction } from '$lib/server/account/pages';
+
+export const load: PageServerLoad = ({ params }) => loadTokenPage('reset', params.token);
+
+export const actions: Actions = {
+	default: (event) => setPasswordAction('reset', event)
+};
