@@ -7,6 +7,7 @@ import type { AppContext } from './context';
 import type { Stoppable } from './services';
 import { startTelemetry } from './ingest/service';
 import { startAlarms } from './alarms/service';
+import { LiveHub } from './live/hub';
 import { startDemoSimulator } from './demo/simulator';
 import { startMail } from './mail';
 
@@ -15,12 +16,11 @@ export async function startParts(ctx: AppContext, started: Stoppable[]): Promise
 		started.push(part);
 		return part;
 	};
-	void add; // each concern below uses it
 	ctx.services.mail = add(await startMail(ctx));
 	ctx.services.telemetry = add(await startTelemetry(ctx));
 	ctx.services.alarms = add(await startAlarms(ctx));
-	// purge:     node-cron jobs per separator
-	// live:      SSE fan-out hub
+	ctx.services.purge = add(await (await import('./purge/service')).startPurge(ctx));
+	ctx.services.live = add(new LiveHub(ctx));
 	const simulator = await startDemoSimulator(ctx);
 	if (simulator) add(simulator);
 }

@@ -5,6 +5,7 @@
 import type { MailService } from './mail';
 import type { TelemetryService } from './ingest/service';
 import type { AlarmService } from './alarms/service';
+import type { LiveHub } from './live/hub';
 
 export interface Stoppable {
 	stop(): Promise<void> | void;
@@ -14,4 +15,6 @@ export interface Services {
 	mail?: MailService;
 	telemetry?: TelemetryService;
 	alarms?: AlarmService;
+	purge?: import('./purge/service').PurgeService;
+	live?: LiveHub;
 }

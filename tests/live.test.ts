@@ -1,0 +1,121 @@
+/**
+ * The live streams over real HTTP from the built app: the snapshot first,
+ * batched samples from the real broker, alarm changes, scope, resuming with
+ * Last-Event-ID, and resuming across a server restart.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startServer, type TestServer } from './helpers/server';
+import { signIn, type Client } from './helpers/http';
+import { connectGateway, telemetry } from './helpers/gateway';
+import { openSse } from './helpers/sse';
+
+let server: TestServer;
+let chief: Client;
+let corrinBay: number;
+let portShaft: number;
+
+beforeAll(async () => {
+	server = await startServer();
+	chief = await signIn(server.url, 'chief@demo.test');
+	const vessels = (await (await chief.get('/api/vessels')).json()).vessels as { id: number; code: string; shafts: { id: number; code: string }[] }[];
+	const v = vessels.find((x) => x.code === 'corrin-bay')!;
+	corrinBay = v.id;
+	portShaft = v.shafts.find((s) => s.code === 'port')!.id;
+});
+afterAll(() => server?.stop());
+
+const live = (path: string, c: Client, headers: Record<string, string> = {}) =>
+	openSse(server.url + path, { cookie: c.cookie!, ...headers });
+
+describe('vessel stream', () => {
+	it('sends the recent window first, then samples as they arrive', async () => {
+		const gw = await connectGateway(server.mqttPort, 'corrin-bay');
+		const before = Date.now() - 30_000;
+		await gw.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts: before, flow_lpm: 101.5 }), { qos: 1 });
+		await new Promise((r) => setTimeout(r, 500)); // committed before the snapshot is read
+		const sse = await live(`/api/vessels/${corrinBay}/live?window=5`, chief);
+		expect(sse.status).toBe(200);
+		const snap = JSON.parse((await sse.next((e) => e.event === 'snapshot', { since: 0 })).data);
+		expect(snap.vessel_id).toBe(corrinBay);
+		expect(snap.shafts[portShaft]).toContainEqual([before, 101.5, null, null, null]);
+
+		const ts = Date.now();
+		await gw.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts, flow_lpm: 97.25, supply_bar: 1.1 }), { qos: 1 });
+		const batch = await sse.next((e) => e.event === 'samples' && e.data.includes(String(ts)), { since: 0 });
+		expect(JSON.parse(batch.data).shafts[portShaft]).toContainEqual([ts, 97.25, 1.1, null, null]);
+		sse.close();
+		gw.end();
+	});
+
+	it('resumes from Last-Event-ID without a gap', async () => {
+		const gw = await connectGateway(server.mqttPort, 'corrin-bay');
+		const first = await live(`/api/vessels/${corrinBay}/live`, chief);
+		const t1 = Date.now() - 2000;
+		await gw.publishAsync(telemetry('corrin-bay', 'stbd'), JSON.stringify({ ts: t1, flow_lpm: 80 }), { qos: 1 });
+		await first.next((e) => e.event === 'samples' && e.data.includes(String(t1)), { since: 0 });
+		const lastId = first.lastEventId()!;
+		first.close();
+		const t2 = Date.now() - 1000;
+		await gw.publishAsync(telemetry('corrin-bay', 'stbd'), JSON.stringify({ ts: t2, flow_lpm: 81 }), { qos: 1 });
+		await new Promise((r) => setTimeout(r, 300));
+		const again = await live(`/api/vessels/${corrinBay}/live`, chief, { 'last-event-id': lastId });
+		const resumed = await again.next((e) => e.data.includes(String(t2)), { since: 0 });
+		expect(resumed.event).toBe('samples');
+		expect(again.events.some((e) => e.event === 'snapshot')).toBe(false);
+		again.close();
+		gw.end();
+	});
+
+	it('is 404 for a technician of other vessels, and 401 signed out', async () => {
+		const tech = await signIn(server.url, 'tech@demo.test'); // corrin-bay and hallow-tern only
+		const vessels = (await (await chief.get('/api/vessels')).json()).vessels as { id: number; code: string }[];
+		const skerry = vessels.find((v) => v.code === 'skerry-lark')!.id;
+		const denied = await live(`/api/vessels/${skerry}/live`, tech);
+		expect(denied.status).toBe(404);
+		const anon = await fetch(`${server.url}/api/vessels/${skerry}/live`);
+		expect(anon.status).toBe(401);
+	});
+});
+
+describe('fleet stream', () => {
+	it('sends alarm changes of visible vessels and a summary every second', async () => {
+		const sse = await live('/api/live', chief);
+		await sse.next((e) => e.event === 'snapshot', { since: 0 });
+		const fleet = JSON.parse((await sse.next((e) => e.event === 'fleet', { timeoutMs: 5000, since: 0 })).data);
+		expect(Object.keys(fleet.vessels).map(Number)).toContain(corrinBay);
+		// a low-flow alarm on corrin-bay port: 20 s of samples under the 63 L/min minimum
+		const gw = await connectGateway(server.mqttPort, 'corrin-bay');
+		const mark = sse.events.length;
+		const t0 = Date.now(); // newer than anything published before, or the rules would not judge it
+		for (let i = 0; i <= 20; i++) {
+			await gw.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts: t0 + i * 1000, flow_lpm: 10 }), { qos: 1 });
+		}
+		const alarm = JSON.parse((await sse.next((e) => e.event === 'alarm' && e.data.includes('"low_flow"'), { since: mark })).data);
+		expect(alarm.alarm).toMatchObject({ vessel_id: corrinBay, shaft_id: portShaft, type: 'low_flow', state: 'unacknowledged' });
+		sse.close();
+		gw.end();
+	});
+});
+
+describe('across a restart', () => {
+	it('a stream resumes after the server restarts, filling the gap from the database', async () => {
+		const gw1 = await connectGateway(server.mqttPort, 'corrin-bay');
+		const sse = await live(`/api/vessels/${corrinBay}/live`, chief);
+		const t1 = Date.now() - 3000;
+		await gw1.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts: t1, flow_lpm: 90 }), { qos: 1 });
+		await sse.next((e) => e.data.includes(String(t1)), { since: 0 });
+		const lastId = sse.lastEventId()!;
+		gw1.end(true);
+		await server.restart();
+		await sse.closed;
+		const gw2 = await connectGateway(server.mqttPort, 'corrin-bay');
+		const t2 = Date.now() - 1000;
+		await gw2.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts: t2, flow_lpm: 91 }), { qos: 1 });
+		await new Promise((r) => setTimeout(r, 500));
+		const again = await live(`/api/vessels/${corrinBay}/live`, await signIn(server.url, 'chief@demo.test'), { 'last-event-id': lastId });
+		const fill = JSON.parse((await again.next((e) => e.event === 'backfill', { since: 0 })).data);
+		expect(fill.shafts[portShaft]).toContainEqual([t2, 91, null, null, null]);
+		again.close();
+		gw2.end();
+	});
+});
