@@ -180,6 +180,9 @@ describe('bad messages are rejected with a reason and counted', () => {
 			.where('ts', '=', ts)
 			.executeTakeFirst();
 		expect(row?.flow_lpm).toBe(88);
+		// every message received is accounted for: stored, a duplicate, or rejected with a reason
+		const st = p.stats;
+		expect(st.received_total).toBe(st.stored_total + st.duplicate_total + st.rejected_total);
 	});
 });
 

@@ -46,6 +46,7 @@ export interface WriteResult {
 	duplicates: number;
 	late: number;
 	states: number;
+	stateDuplicates: number;
 	ms: number;
 }
 

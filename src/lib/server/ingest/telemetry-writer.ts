@@ -56,6 +56,9 @@ function addStat(s: Stat, v: number) {
 
 const DEFAULT_GAP_MS = 30_000;
 
+/** NaN marks an absent reading in a batch (batch.ts); the column is NULL */
+const nul = (v: number) => (Number.isNaN(v) ? null : v);
+
 /** SQL for merging a delta into a stored min/max that may be NULL on either side. */
 const merge = (col: string, fn: 'min' | 'max') =>
 	sql.raw<any>(
@@ -257,14 +260,17 @@ export class TelemetryWriter {
 	}
 
 	#write(batch: WriteBatch): Omit<WriteResult, 'seq' | 'ms'> {
-		const acc1m = new Map<string, Acc>();
-		const acc1h = new Map<string, Acc>();
-		const accOf = (map: Map<string, Acc>, shaft: number, bucket: number) => {
-			const key = `${shaft}:${bucket}`;
-			let a = map.get(key);
+		// shaft → bucket → accumulator: numeric keys, as a string key per row and level cost ~10 % of the writer
+		const acc1m = new Map<number, Map<number, Acc>>();
+		const acc1h = new Map<number, Map<number, Acc>>();
+		const levels = [[acc1m, MINUTE_MS], [acc1h, HOUR_MS]] as const;
+		const accOf = (map: Map<number, Map<number, Acc>>, shaft: number, bucket: number) => {
+			let byBucket = map.get(shaft);
+			if (!byBucket) map.set(shaft, (byBucket = new Map()));
+			let a = byBucket.get(bucket);
 			if (!a) {
 				a = { shaft, bucket, n: 0, flow_min: null, flow_min_at: null, flow_max: null, flow_sum: 0, supply: stat(), temp: stat(), rpm: stat(), covered: 0, below: 0 };
-				map.set(key, a);
+				byBucket.set(bucket, a);
 			}
 			return a;
 		};
@@ -280,7 +286,6 @@ export class TelemetryWriter {
 			const supply = rows[i + 3];
 			const temp = rows[i + 4];
 			const rpm = rows[i + 5];
-			const nul = (v: number) => (Number.isNaN(v) ? null : v);
 			const last = this.#newestOf(shaft);
 			if (this.#s.insertSample.run(shaft, ts, flow, nul(supply), nul(temp), nul(rpm)).changes === 0) {
 				duplicates++;
@@ -289,7 +294,7 @@ export class TelemetryWriter {
 			stored++;
 			const cfg = this.#cfg(shaft);
 			const below = flow < cfg.minFlow;
-			for (const [map, size] of [[acc1m, MINUTE_MS], [acc1h, HOUR_MS]] as const) {
+			for (const [map, size] of levels) {
 				const a = accOf(map, shaft, bucketOf(ts, size));
 				a.n++;
 				a.flow_sum += flow;
@@ -305,7 +310,7 @@ export class TelemetryWriter {
 			if (ts > last.ts) {
 				const held = heldInterval(last.ts, ts, cfg.gapMs);
 				if (held) {
-					for (const [map, size] of [[acc1m, MINUTE_MS], [acc1h, HOUR_MS]] as const) {
+					for (const [map, size] of levels) {
 						splitInterval(held[0], held[1], size, (bucket, ms) => {
 							const a = accOf(map, shaft, bucket);
 							a.covered += ms;
@@ -323,7 +328,7 @@ export class TelemetryWriter {
 		}
 
 		for (const [map, stmt] of [[acc1m, this.#s.upsert1m], [acc1h, this.#s.upsert1h]] as const) {
-			for (const a of map.values()) {
+			for (const a of [...map.values()].flatMap((byBucket) => [...byBucket.values()])) {
 				stmt.run(
 					a.shaft, a.bucket, a.n, a.flow_min, a.flow_min_at, a.flow_max, a.flow_sum,
 					a.supply.n, a.supply.min, a.supply.max, a.supply.sum,
@@ -339,7 +344,7 @@ export class TelemetryWriter {
 			this.#recomputeCoverage(shaft, list);
 		}
 
-		const states = this.#writeStates(batch);
+		const { states, stateDuplicates } = this.#writeStates(batch);
 		for (const v of batch.valves) {
 			if (v.state === 'open') this.#s.valveOpen.run(v.vessel_id, v.ts, null, v.dp_bar);
 			else this.#s.valveClose.run(v.ts, v.vessel_id, v.ts);
@@ -347,7 +352,7 @@ export class TelemetryWriter {
 		for (const s of batch.statuses) this.#s.status.run(s.vessel_id, s.online ? 1 : 0, s.at, null);
 		for (const [vessel, at] of batch.lastMessageAt) this.#s.lastMessage.run(vessel, 1, at, at);
 		for (const r of batch.rejected) this.#s.rejected.run(r.at, r.topic, r.reason, r.detail, r.payload);
-		return { stored, duplicates, late: lateCount, states };
+		return { stored, duplicates, late: lateCount, states, stateDuplicates };
 	}
 
 	/** Recomputes covered/below of the minute buckets a late sample can touch, then their hours. */
@@ -372,10 +377,11 @@ export class TelemetryWriter {
 		}
 	}
 
-	#writeStates(batch: WriteBatch): number {
+	#writeStates(batch: WriteBatch): { states: number; stateDuplicates: number } {
 		const sep1m = new Map<string, Stat & { vessel: number; bucket: number }>();
 		const sep1h = new Map<string, Stat & { vessel: number; bucket: number }>();
 		let count = 0;
+		let dupes = 0;
 		const rows = batch.states;
 		for (let i = 0; i < rows.length; i += STATE_STRIDE) {
 			const vessel = rows[i];
@@ -385,7 +391,10 @@ export class TelemetryWriter {
 			const changes = this.#s.insertState.run(
 				vessel, ts, Number.isNaN(dp) ? null : dp, valve < 0 ? null : valve === 1 ? 'open' : 'closed'
 			).changes;
-			if (!changes) continue;
+			if (!changes) {
+				dupes++;
+				continue;
+			}
 			count++;
 			if (Number.isNaN(dp)) continue;
 			for (const [map, size] of [[sep1m, MINUTE_MS], [sep1h, HOUR_MS]] as const) {
@@ -399,7 +408,7 @@ export class TelemetryWriter {
 		for (const [map, stmt] of [[sep1m, this.#s.sep1m], [sep1h, this.#s.sep1h]] as const) {
 			for (const s of map.values()) stmt.run(s.vessel, s.bucket, s.n, s.min, s.max, s.sum);
 		}
-		return count;
+		return { states: count, stateDuplicates: dupes };
 	}
 
 	/** Deletes raw samples and separator states older than `before` (rollups stay), in chunks. */

@@ -13,7 +13,8 @@ export function sseMessage(event: string, data: unknown, id?: string): Uint8Arra
 	return encoder.encode(`${idLine}event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
 }
 
-export const HEARTBEAT = encoder.encode(': keep-alive\n\n');
+/** a real event (not a comment) so the browser can tell a quiet stream from a dead one */
+export const HEARTBEAT = encoder.encode('event: ping\ndata: {}\n\n');
 /** tells EventSource how soon to reconnect after the stream ends (ms) */
 export const RETRY = encoder.encode('retry: 2000\n\n');
 
