@@ -34,7 +34,8 @@ export async function startServer(env: Record<string, string> = {}): Promise<Tes
 		HOME: process.env.HOME ?? '/tmp',
 		PORT: String(port),
 		HOST: '127.0.0.1',
-		ORIGIN: `http://localhost:${port}`,
+		// the same host the tests browse, or SvelteKit refuses their form posts as cross-site
+		ORIGIN: `http://127.0.0.1:${port}`,
 		DATABASE_PATH: join(dir, 'aftwater.db'),
 		DEMO: '1',
 		SIMULATOR: 'off',
