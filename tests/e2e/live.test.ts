@@ -6,6 +6,7 @@
  * server restarts. Screenshots of both themes are kept in test-results/.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { gzipSync } from 'node:zlib';
 import type { MqttClient } from 'mqtt';
 import { startServer, type TestServer } from '../helpers/server';
 import { connectGateway, telemetry } from '../helpers/gateway';
@@ -81,6 +82,24 @@ describe('live watch', () => {
 		flow = 110; // the standby pump has started
 		await chief.context.close();
 		await fleet.context.close();
+	});
+
+	it('loads less than 150 kB of JavaScript (gzipped) for the vessel page', async () => {
+		const { context, page } = await browser.signedIn(server.url, 'chief@demo.test');
+		const scripts = new Map<string, number>();
+		page.on('response', async (res) => {
+			if (res.request().resourceType() === 'script' || res.url().endsWith('.js')) {
+				const body = await res.body().catch(() => null);
+				if (body) scripts.set(res.url(), gzipSync(body).length);
+			}
+		});
+		await page.goto(`${server.url}/vessels/${CORRIN_BAY}`, { waitUntil: 'networkidle' });
+		// a fresh navigation, so every chunk the page needs is fetched, not taken from the client router
+		await page.reload({ waitUntil: 'networkidle' });
+		const total = [...scripts.values()].reduce((a, b) => a + b, 0);
+		expect(scripts.size).toBeGreaterThan(0);
+		expect(total).toBeLessThan(150 * 1024);
+		await context.close();
 	});
 
 	it('a technician of another vessel cannot open the page or the stream', async () => {

@@ -17,6 +17,8 @@ export interface TestServer {
 	smtpPort: number;
 	env: Record<string, string>;
 	output: () => string;
+	/** the server process id (for memory readings in benchmarks) */
+	pid: () => number | undefined;
 	/** stop (SIGTERM), optionally keeping the database folder for a restart */
 	stop(options?: { keepData?: boolean; signal?: NodeJS.Signals }): Promise<void>;
 	/** start again on the same ports and database */
@@ -84,6 +86,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Tes
 		smtpPort: Number(fullEnv.SMTP_PORT),
 		env: fullEnv,
 		output: () => log,
+		pid: () => child.pid,
 		async stop(options = {}) {
 			await halt(options.signal);
 			if (!options.keepData) rmSync(dir, { recursive: true, force: true });

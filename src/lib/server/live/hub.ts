@@ -13,7 +13,7 @@ import { HEARTBEAT, RETRY, sseMessage, SseClient } from './sse';
 import { samplesSince, vesselSnapshot, type SampleTuple, type SeparatorTuple } from './snapshot';
 
 /** ms: fast enough that publish → screen stays well under 100 ms at p95, yet batched */
-const FLUSH_MS = 40;
+const FLUSH_MS = 25;
 const HEARTBEAT_MS = 15_000;
 const FLEET_EVERY_MS = 1_000;
 /** how long a vessel's recent messages are kept for resuming streams */
