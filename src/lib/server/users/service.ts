@@ -89,6 +89,13 @@ export async function updateUser(ctx: AppContext, actor: Actor, id: string, inpu
 		throw new ApiError(409, 'conflict', 'you cannot disable yourself or change your own role');
 	}
 	const before = await users.toAppUser(ctx.db, row);
+	const role = input.role ?? row.role;
+	const vessels = input.vessel_ids ?? before.vessel_ids;
+	if (ONBOARD_ROLES.includes(role) && vessels.length === 0) {
+		throw new ApiError(422, 'invalid', 'vessel_ids: an on-board role needs at least one vessel', {
+			vessel_ids: 'an on-board role needs at least one vessel'
+		});
+	}
 	if (input.vessel_ids) {
 		await checkVessels(ctx, input.vessel_ids);
 		await users.setMemberships(ctx.db, id, [...new Set(input.vessel_ids)]);
@@ -127,10 +134,20 @@ export async function changeOwnPassword(
 	next: string
 ) {
 	const row = await users.findById(ctx.db, userId);
+	// the same throttle as sign-in: a stolen session must not be a way to guess the password
+	const key = row?.email ?? userId;
+	const wait = ctx.throttles.account.retryAfterMs(key);
+	if (wait > 0) {
+		throw new ApiError(429, 'throttled', `too many wrong passwords; try again in ${Math.ceil(wait / 1000)} s`, undefined, {
+			'retry-after': String(Math.ceil(wait / 1000))
+		});
+	}
 	if (!row?.password_hash || !(await verifySecret(row.password_hash, current))) {
+		ctx.throttles.account.fail(key);
 		throw new ApiError(422, 'invalid', 'current_password: not your current password', {
 			current_password: 'not your current password'
 		});
 	}
+	ctx.throttles.account.reset(key);
 	await setPassword(ctx, actor, userId, next);
 }
