@@ -1,33 +1,14 @@
 /** What the live streams send (GET /api/vessels/{id}/live and GET /api/live). */
-import type { AlarmType, Priority } from '$lib/alarms/types';
 import type { AlarmState } from '$lib/alarms/state-machine';
+import type { AlarmView } from '$lib/alarms/view';
 
 /** [ts, flow_lpm, supply_bar, temp_c, shaft_rpm] */
 export type SampleTuple = [number, number, number | null, number | null, number | null];
 /** [ts, dp_bar, purge_valve] */
 export type SeparatorTuple = [number, number | null, 'open' | 'closed' | null];
 
-export interface LiveAlarm {
-	id: number;
-	vessel_id: number;
-	shaft_id: number | null;
-	type: AlarmType;
-	label: string;
-	priority: Priority;
-	state: AlarmState;
-	state_label: string;
-	active: boolean;
-	acknowledged: boolean;
-	suppressed: boolean;
-	out_of_service: boolean;
-	shelved_until: number | null;
-	raised_at: number;
-	value: number | null;
-	limit_value: number | null;
-	acknowledged_at: number | null;
-	acknowledged_by: string | null;
-	ended_at: number | null;
-}
+/** an alarm as the streams send it (the same shape as the API's) */
+export type LiveAlarm = AlarmView;
 
 export interface AlarmChange {
 	alarm: LiveAlarm;

@@ -1,33 +1,11 @@
-/** The alarm as the API, the pages and the mail templates see it. */
-import { ALARM_TYPE_LABELS, type AlarmType, type Priority } from '$lib/alarms/types';
-import { ALARM_STATE_LABELS, type AlarmState } from '$lib/alarms/state-machine';
+/** From a stored alarm row to the AlarmView the API, pages and mail templates see. */
+import { ALARM_TYPE_LABELS } from '$lib/alarms/types';
+import { ALARM_STATE_LABELS } from '$lib/alarms/state-machine';
 import type { Selectable } from 'kysely';
+import type { AlarmView } from '$lib/alarms/view';
 import type { AlarmsTable } from '../db/tables/alarms';
 
-export interface AlarmView {
-	id: number;
-	vessel_id: number;
-	shaft_id: number | null;
-	type: AlarmType;
-	label: string;
-	priority: Priority;
-	state: AlarmState;
-	state_label: string;
-	active: boolean;
-	acknowledged: boolean;
-	suppressed: boolean;
-	out_of_service: boolean;
-	shelved_until: number | null;
-	raised_at: number;
-	/** the reading that raised it, in SI (L/min, bar, °C) */
-	value: number | null;
-	/** the limit it crossed, in the same unit */
-	limit_value: number | null;
-	cleared_at: number | null;
-	acknowledged_at: number | null;
-	acknowledged_by: string | null;
-	ended_at: number | null;
-}
+export type { AlarmView };
 
 export function toAlarmView(row: Selectable<AlarmsTable>): AlarmView {
 	return {
