@@ -322,3 +322,45 @@ describe('rollups', () => {
 		}
 	});
 });
+
+describe('hostile input at the broker', () => {
+	it('drops a connection that announces an oversized packet, and keeps serving the others', async () => {
+		const net = await import('node:net');
+		const socket = net.connect(app.mqttPort, '127.0.0.1');
+		await new Promise((r) => socket.once('connect', r));
+		const closed = new Promise((r) => socket.once('close', r));
+		// a PUBLISH fixed header announcing 200 MB (remaining length 0x80 0x80 0xe8 0x5f), then some bytes
+		socket.write(Buffer.from([0x30, 0x80, 0x80, 0xe8, 0x5f]));
+		socket.write(Buffer.alloc(1024));
+		await closed;
+		const gw = await connectGateway(app.mqttPort, 'corrin-bay');
+		const ts = Date.now() - 777;
+		await gw.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts, flow_lpm: 77 }), { qos: 1 });
+		await pipeline().drain();
+		const row = await waitFor(async () => {
+			await pipeline().drain();
+			return app.ctx.db.selectFrom('samples').select('flow_lpm').where('shaft_id', '=', shaftId).where('ts', '=', ts).executeTakeFirst();
+		});
+		expect(row.flow_lpm).toBe(77);
+		gw.end();
+	});
+});
+
+describe('retention', () => {
+	it('deletes raw samples past the retention and keeps their rollups', async () => {
+		const { TelemetryWriter } = await import('$lib/server/ingest/telemetry-writer');
+		const writer = new TelemetryWriter(app.ctx.sqlite);
+		const old = Date.now() - 500 * 86_400_000;
+		const p = pipeline();
+		for (let i = 0; i < 5; i++) p.handle(telemetry('corrin-bay', 'stbd'), Buffer.from(JSON.stringify({ ts: old + i * 1000, flow_lpm: 70 })));
+		await p.drain();
+		const stbd = app.ctx.services.telemetry!.registry.vessel('corrin-bay')!.shafts.get('stbd')!.id;
+		const before = (app.ctx.sqlite.prepare('select count(*) n from samples where shaft_id = ? and ts < ?').get(stbd, old + 10_000) as { n: number }).n;
+		expect(before).toBe(5);
+		writer.retention(Date.now() - 400 * 86_400_000, 500);
+		const after = (app.ctx.sqlite.prepare('select count(*) n from samples where shaft_id = ? and ts < ?').get(stbd, old + 10_000) as { n: number }).n;
+		expect(after).toBe(0);
+		const rollup = app.ctx.sqlite.prepare('select n from rollup_1m where shaft_id = ? and bucket = ?').get(stbd, Math.floor(old / 60_000) * 60_000) as { n: number };
+		expect(rollup.n).toBeGreaterThanOrEqual(1);
+	});
+});

@@ -11,6 +11,10 @@ import { timingSafeEqual } from 'node:crypto';
 import { Aedes, type AuthenticateError, type Client } from 'aedes';
 import { parseTopic } from '../ingest/payloads';
 import type { GatewayAuth, GatewayIdentity } from './gateway-auth';
+import { guardedConnection } from './packet-guard';
+
+/** bytes: far above any contract message, far below what the parser would buffer (256 MB) */
+export const MAX_MQTT_PACKET_BYTES = 65_536;
 
 export const INTERNAL_USERNAME = 'aftwater-server';
 
@@ -116,7 +120,9 @@ export async function startEmbeddedBroker(options: BrokerOptions): Promise<Embed
 	aedes.on('clientError', () => {});
 	aedes.on('connectionError', () => {});
 
-	const server = net.createServer(aedes.handle);
+	// a packet above this never reaches the broker's parser (larger payloads than the ingest's
+	// own limit still arrive, to be rejected there with a reason)
+	const server = net.createServer((socket) => aedes.handle(guardedConnection(socket, MAX_MQTT_PACKET_BYTES)));
 	await new Promise<void>((resolve, reject) => {
 		server.once('error', reject);
 		server.listen(options.port, options.host, () => {
