@@ -189,3 +189,18 @@ describe('operating mode', () => {
 		expect(audit.map((a) => JSON.parse(a.details!).to)).toEqual(['dry_dock', 'at_sea']);
 	});
 });
+
+describe('imported logger rows', () => {
+	it('are stored but never judged as live: no alarm from an upload', async () => {
+		const id = await shaftId('lakeline-wren', 'stbd');
+		const before = (await alarmsOf(id, 'low_flow')).length;
+		const p = app.ctx.services.telemetry!.pipeline;
+		const t0 = Date.now() + 60_000; // newer than any live sample of the shaft
+		for (let t = 0; t <= 30; t++) {
+			p.handle('aftwater/v1/lakeline-wren/stbd/telemetry', Buffer.from(JSON.stringify({ ts: t0 + t * 1000, flow_lpm: 1 })), Date.now(), 'import');
+		}
+		expect(await alarmsOf(id, 'low_flow')).toHaveLength(before);
+		const stored = app.ctx.sqlite.prepare('select count(*) n from samples where shaft_id = ? and ts >= ?').get(id, t0) as { n: number };
+		expect(stored.n).toBe(31);
+	});
+});

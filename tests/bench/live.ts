@@ -32,8 +32,10 @@ const SECONDS = Number(args.seconds);
 const BURST = Number(args.burst);
 const ROOT = resolve(import.meta.dirname, '../..');
 
-const rssKb = (pid: number) => Number(/VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))?.[1] ?? 0);
-const pct = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] : NaN);
+const rssKb = (pid: number) =>
+	Number(/VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))?.[1] ?? 0);
+const pct = (sorted: number[], p: number) =>
+	sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] : NaN;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 if (!existsSync(resolve(ROOT, 'build/index.js'))) {
@@ -44,12 +46,23 @@ if (!existsSync(resolve(ROOT, 'build/index.js'))) {
 const server = await startServer({ SIMULATOR: 'off', DEMO: '1' });
 try {
 	const admin = await signIn(server.url, 'admin@demo.test');
-	const vessel = (await (await admin.post('/api/vessels', { code: 'bench-live', name: 'Bench Live' })).json()).vessel;
+	const vessel = (
+		await (await admin.post('/api/vessels', { code: 'bench-live', name: 'Bench Live' })).json()
+	).vessel;
 	for (const [i, pos] of (['port', 'centre', 'centre', 'starboard'] as const).entries()) {
-		await admin.post(`/api/vessels/${vessel.id}/shafts`, { code: `s${i + 1}`, name: `Shaft ${i + 1}`, position: pos, diameter_mm: 400, centreline_depth_m: 4 });
+		await admin.post(`/api/vessels/${vessel.id}/shafts`, {
+			code: `s${i + 1}`,
+			name: `Shaft ${i + 1}`,
+			position: pos,
+			diameter_mm: 400,
+			centreline_depth_m: 4
+		});
 	}
 	const creds = await (await admin.post(`/api/vessels/${vessel.id}/gateway`)).json();
-	const gw = await mqtt.connectAsync(`mqtt://127.0.0.1:${server.mqttPort}`, { username: creds.username, password: creds.password });
+	const gw = await mqtt.connectAsync(`mqtt://127.0.0.1:${server.mqttPort}`, {
+		username: creds.username,
+		password: creds.password
+	});
 
 	const pid = server.pid()!;
 	await sleep(1000);
@@ -57,7 +70,11 @@ try {
 	const viewer = await signIn(server.url, 'fleet@demo.test');
 	const clients: SseConnection[] = [];
 	for (let i = 0; i < CLIENTS; i++) {
-		clients.push(await openSse(`${server.url}/api/vessels/${vessel.id}/live?window=5`, { cookie: viewer.cookie! }));
+		clients.push(
+			await openSse(`${server.url}/api/vessels/${vessel.id}/live?window=5`, {
+				cookie: viewer.cookie!
+			})
+		);
 	}
 	await sleep(2000);
 	const rssAfter = rssKb(pid);
@@ -70,7 +87,8 @@ try {
 			for (const e of c.events) {
 				if (e.event !== 'samples' || e.receivedAt < from) continue;
 				const data = JSON.parse(e.data) as { shafts: Record<string, [number][]> };
-				for (const rows of Object.values(data.shafts)) for (const [ts] of rows) if (ts >= from) out.push(e.receivedAt - ts);
+				for (const rows of Object.values(data.shafts))
+					for (const [ts] of rows) if (ts >= from) out.push(e.receivedAt - ts);
 			}
 		}
 		return out.sort((a, b) => a - b);
@@ -81,7 +99,8 @@ try {
 	const steadyFrom = Date.now();
 	for (let t = 0; t < SECONDS; t++) {
 		const ts = Date.now();
-		for (let s = 1; s <= 4; s++) gw.publish(topic(s), JSON.stringify({ ts, flow_lpm: 100 + s, supply_bar: 1.2 }), { qos: 0 });
+		for (let s = 1; s <= 4; s++)
+			gw.publish(topic(s), JSON.stringify({ ts, flow_lpm: 100 + s, supply_bar: 1.2 }), { qos: 0 });
 		await sleep(1000);
 	}
 	await sleep(500);
@@ -93,7 +112,8 @@ try {
 	await sleep(5);
 	for (let k = 0; k < BURST; k++) {
 		const ts = Date.now();
-		for (let s = 1; s <= 4; s++) gw.publish(topic(s), JSON.stringify({ ts: ts + k, flow_lpm: 100 }), { qos: 0 });
+		for (let s = 1; s <= 4; s++)
+			gw.publish(topic(s), JSON.stringify({ ts: ts + k, flow_lpm: 100 }), { qos: 0 });
 	}
 	await sleep(3000);
 	const burst = latencies(burstFrom);
@@ -116,10 +136,24 @@ try {
 	};
 	console.log('\nbench:live — publish → SSE receipt, one vessel of 4 shafts at 1 Hz per shaft');
 	console.table({
-		steady: { clients: CLIENTS, received: `${steady.length}/${expected}`, p50: result.p50_ms, p95: result.p95_ms, p99: result.p99_ms },
-		burst: { clients: CLIENTS, received: burst.length, p50: result.burst_p50_ms, p95: result.burst_p95_ms, p99: result.burst_p99_ms }
+		steady: {
+			clients: CLIENTS,
+			received: `${steady.length}/${expected}`,
+			p50: result.p50_ms,
+			p95: result.p95_ms,
+			p99: result.p99_ms
+		},
+		burst: {
+			clients: CLIENTS,
+			received: burst.length,
+			p50: result.burst_p50_ms,
+			p95: result.burst_p95_ms,
+			p99: result.burst_p99_ms
+		}
 	});
-	console.log(`server memory: ${result.server_rss_kb_per_client} kB per client (RSS ${rssBefore} → ${rssAfter} kB)`);
+	console.log(
+		`server memory: ${result.server_rss_kb_per_client} kB per client (RSS ${rssBefore} → ${rssAfter} kB)`
+	);
 	console.log(`target p95 < 100 ms at ${CLIENTS} clients: ${result.pass ? 'met' : 'NOT met'}`);
 	for (const c of clients) c.close();
 	await gw.endAsync();

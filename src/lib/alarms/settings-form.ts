@@ -10,6 +10,10 @@ import { ALARM_SETTING_FIELDS, type AlarmSettings } from './settings';
 export type SettingKey = keyof typeof ALARM_SETTING_FIELDS;
 export const SETTING_KEYS = Object.keys(ALARM_SETTING_FIELDS) as SettingKey[];
 
+/** the settings that belong to a vessel's separator rather than to a shaft */
+export const SEPARATOR_SETTING_KEYS = SETTING_KEYS.filter((k) => k.startsWith('separator_'));
+export const SHAFT_SETTING_KEYS = SETTING_KEYS.filter((k) => !k.startsWith('separator_'));
+
 const round = (v: number) => String(Number(v.toFixed(4)));
 
 export function displayUnit(key: SettingKey, units: UnitSystem): string {
@@ -32,10 +36,10 @@ export function fromFormValue(key: SettingKey, text: string, units: UnitSystem):
 }
 
 /** The changed fields, in SI, or the fields that are not numbers. */
-export function changedSettings(form: FormData, current: AlarmSettings, units: UnitSystem) {
+export function changedSettings(form: FormData, current: AlarmSettings, units: UnitSystem, keys: SettingKey[] = SETTING_KEYS) {
 	const update: Partial<Record<SettingKey, number>> = {};
 	const errors: Record<string, string> = {};
-	for (const key of SETTING_KEYS) {
+	for (const key of keys) {
 		const text = form.get(key);
 		if (typeof text !== 'string' || text === toFormValue(key, current[key], units)) continue;
 		const v = fromFormValue(key, text, units);

@@ -7,6 +7,8 @@ import type { AppContext } from './context';
 import type { Stoppable } from './services';
 import { startTelemetry } from './ingest/service';
 import { startAlarms } from './alarms/service';
+import { startNotify } from './notify/service';
+import { startPurge } from './purge/service';
 import { LiveHub } from './live/hub';
 import { startDemoSimulator } from './demo/simulator';
 import { startMail } from './mail';
@@ -19,7 +21,8 @@ export async function startParts(ctx: AppContext, started: Stoppable[]): Promise
 	ctx.services.mail = add(await startMail(ctx));
 	ctx.services.telemetry = add(await startTelemetry(ctx));
 	ctx.services.alarms = add(await startAlarms(ctx));
-	ctx.services.purge = add(await (await import('./purge/service')).startPurge(ctx));
+	ctx.services.notify = add(await startNotify(ctx));
+	ctx.services.purge = add(await startPurge(ctx));
 	ctx.services.live = add(new LiveHub(ctx));
 	const simulator = await startDemoSimulator(ctx);
 	if (simulator) add(simulator);

@@ -6,6 +6,8 @@ import type { MailService } from './mail';
 import type { TelemetryService } from './ingest/service';
 import type { AlarmService } from './alarms/service';
 import type { LiveHub } from './live/hub';
+import type { NotifyService } from './notify/service';
+import type { PurgeService } from './purge/service';
 
 export interface Stoppable {
 	stop(): Promise<void> | void;
@@ -15,6 +17,7 @@ export interface Services {
 	mail?: MailService;
 	telemetry?: TelemetryService;
 	alarms?: AlarmService;
-	purge?: import('./purge/service').PurgeService;
+	notify?: NotifyService;
+	purge?: PurgeService;
 	live?: LiveHub;
 }

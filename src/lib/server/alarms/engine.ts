@@ -123,6 +123,7 @@ export class AlarmEngine {
 	}
 
 	onSample(e: SampleEvent) {
+		if (e.origin !== 'live') return; // an uploaded logger file is history, not news
 		const at = this.now();
 		this.#lastSeen.set(e.shaft.id, at);
 		const staleKey = instanceKey(e.shaft.vesselId, e.shaft.id, 'stale_data');

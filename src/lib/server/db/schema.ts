@@ -11,6 +11,7 @@ import type { AlarmsTables } from './tables/alarms';
 import type { MailTables } from './tables/mail';
 import type { PurgeTables } from './tables/purge';
 import type { HistoryTables } from './tables/history';
+import type { NotifyTables } from './tables/notify';
 
 /** epoch milliseconds */
 export type EpochMs = number;
@@ -101,7 +102,8 @@ export interface Database
 		AlarmsTables,
 		MailTables,
 		PurgeTables,
-		HistoryTables {
+		HistoryTables,
+		NotifyTables {
 	users: UsersTable;
 	sessions: SessionsTable;
 	vessels: VesselsTable;

@@ -9,6 +9,7 @@ import { audit, SYSTEM } from '../audit';
 import { hashSecret } from '../auth/password';
 import * as users from '../users/repository';
 import { DEMO_USERS, DEMO_VESSELS, demoGatewayPassword, gatewayUsername } from './fleet';
+import { seedDemoPurgeSchedules } from '../purge/demo';
 
 export async function seedDemo(db: Kysely<Database>, demoPassword: string): Promise<void> {
 	const vesselIds = new Map<string, number>();
@@ -77,6 +78,7 @@ export async function seedDemo(db: Kysely<Database>, demoPassword: string): Prom
 			vesselIds: u.vessels.map((code) => vesselIds.get(code)!)
 		});
 	}
+	await seedDemoPurgeSchedules(db);
 }
 
 /** Creates the first administrator if ADMIN_EMAIL is set and no such user exists. */

@@ -20,7 +20,8 @@ export async function loadLatest(db: Kysely<Database>, pipeline: IngestPipeline)
 				supply_bar: row.supply_bar,
 				temp_c: row.temp_c,
 				shaft_rpm: row.shaft_rpm,
-				newest: true
+				newest: true,
+				origin: 'live'
 			});
 		}
 	}

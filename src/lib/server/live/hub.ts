@@ -46,7 +46,7 @@ export class LiveHub {
 				pipeline.listen({
 					sample: (e) => {
 						const ch = this.#channels.get(e.shaft.vesselId);
-						if (!ch) return;
+						if (!ch || e.origin !== 'live') return;
 						let list = ch.shafts.get(e.shaft.id);
 						if (!list) ch.shafts.set(e.shaft.id, (list = []));
 						list.push([e.ts, e.flow_lpm, e.supply_bar, e.temp_c, e.shaft_rpm]);

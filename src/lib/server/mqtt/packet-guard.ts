@@ -5,7 +5,7 @@
  * the connection when a packet announces more than the limit — before the
  * broker would buffer up to 256 MB of it. Everything else passes unchanged.
  */
-import { Duplex, Transform, type TransformCallback } from 'node:stream';
+import { Duplex, Transform, Writable, type TransformCallback } from 'node:stream';
 import type { Socket } from 'node:net';
 
 export class PacketLengthGuard {
@@ -64,8 +64,44 @@ export function guardedConnection(socket: Socket, maxPacketBytes: number): Duple
 		}
 	});
 	socket.pipe(checked);
-	const duplex = Duplex.from({ readable: checked, writable: socket });
+	const duplex = Duplex.from({ readable: checked, writable: coalescedWrites(socket) });
 	socket.on('error', (err) => duplex.destroy(err));
 	socket.on('close', () => duplex.destroy());
 	return duplex;
+}
+
+/**
+ * The socket's writing side for the broker: what it writes in one event-loop
+ * turn leaves as one writev. Duplex.from writes chunk by chunk, so otherwise
+ * every packet — at QoS 1 a 4-byte PUBACK per message — is a syscall of its
+ * own: about 30 % of the main thread's time at QoS 1 (bench:ingest profile).
+ */
+function coalescedWrites(socket: Socket): Writable {
+	let corked = false;
+	const release = () => {
+		if (!corked) return;
+		corked = false;
+		socket.uncork();
+	};
+	return new Writable({
+		write(chunk: Buffer, encoding: BufferEncoding, done: (err?: Error | null) => void) {
+			if (!corked) {
+				corked = true;
+				socket.cork();
+				setImmediate(release);
+			}
+			if (socket.write(chunk, encoding)) done();
+			else socket.once('drain', () => done());
+		},
+		final(done) {
+			release();
+			socket.end(() => done());
+		},
+		destroy(err, done) {
+			// a refusing CONNACK is written just before the broker destroys the connection
+			release();
+			socket.destroy(err ?? undefined);
+			done(err);
+		}
+	});
 }

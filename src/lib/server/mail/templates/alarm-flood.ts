@@ -30,10 +30,22 @@ export function renderAlarmFlood(data: AlarmFloodData, env: MailEnv): RenderedMa
 		.map(([p, n]) => `${n} ${PRIORITY_WORDS[p].toLowerCase()}${n === 1 ? '' : 's'}`);
 	const where = vessels.length <= 2 ? vessels.join(' and ') : `${vessels.length} vessels`;
 	// "alert" is the IMO umbrella word for alarms, warnings and cautions together
-	const subject = `[${PRIORITY_WORDS[top]}] ${alarms.length} alerts on ${where}`;
+	const first = `[${PRIORITY_WORDS[top]}] ${alarms.length} alerts on ${where}`;
+	// "Re:" and the same subject keep a follow-up in the summary's thread in every mail client
+	const subject = data.followup ? `Re: ${first}` : first;
 	// the window in the first vessel's zone (and UTC); each alarm below has its own vessel's
 	const zone = alarms[0]?.vessel.timeZone ?? 'UTC';
-	const intro = `${alarms.length} alerts were raised between ${formatWhen(data.from, zone)} and ${formatWhen(data.to, zone)}: ${counts.join(', ')}. They are listed in one message so that none is lost in a storm of e-mails; each still needs its own acknowledgement.`;
+	const raised = `${alarms.length} alerts were raised between ${formatWhen(data.from, zone)} and ${formatWhen(data.to, zone)}: ${counts.join(', ')}.`;
+	const intro = !data.followup
+		? `${raised} They are listed in one message so that none is lost in a storm of e-mails; each still needs its own acknowledgement.`
+		: data.followup.change === 'acknowledged'
+			? `All ${alarms.length} alerts below are acknowledged, the last at ${formatWhen(data.followup.at, zone)}. The conditions may still be present; you will hear again when they have all returned to normal.`
+			: `All ${alarms.length} alerts below have returned to normal, the last at ${formatWhen(data.followup.at, zone)}. The readings are the latest ones.`;
+	const heading = !data.followup
+		? `${alarms.length} alerts on ${where}`
+		: data.followup.change === 'acknowledged'
+			? `Acknowledged: ${alarms.length} alerts on ${where}`
+			: `Returned to normal: ${alarms.length} alerts on ${where}`;
 	const lines = alarms.map((a) =>
 		[
 			`${PRIORITY_WORDS[a.priority]} · ${a.vessel.name} · ${a.shaft ? a.shaft.name : 'whole vessel'} · ${conditionLabel(a)}`,
@@ -45,9 +57,7 @@ export function renderAlarmFlood(data: AlarmFloodData, env: MailEnv): RenderedMa
 	);
 	const text = textDocument([subject, intro, lines.join('\n\n')]);
 	const cell = 'padding:6px 8px;border-bottom:1px solid #cfd6dd;vertical-align:top;text-align:left';
-	const body = html`<h1 style="font-size:20px;margin:0 0 8px">
-			${alarms.length} alerts on ${where}
-		</h1>
+	const body = html`<h1 style="font-size:20px;margin:0 0 8px">${heading}</h1>
 		<p>${intro}</p>
 		<table
 			cellpadding="0"

@@ -25,6 +25,7 @@ export const ALARM_CONDITION_LABELS = {
 	low_supply_pressure: 'Low supply pressure',
 	separator_dp_high: 'Separator differential pressure high',
 	purge_missed: 'Purge missed',
+	purge_valve_stuck_open: 'Purge valve stuck open',
 	stale_data: 'No data from the gateway',
 	implausible_value: 'Implausible value (sensor fault)',
 	water_temp_high: 'Water temperature high'
@@ -133,6 +134,8 @@ export interface AlarmFloodData {
 	/** the window the alarms were raised in */
 	from: number;
 	to: number;
+	/** a later message of the same thread: every alert listed is now acknowledged, or back to normal */
+	followup?: { change: 'acknowledged' | 'returned_to_normal'; at: number } | null;
 }
 
 export interface DigestAlarm {

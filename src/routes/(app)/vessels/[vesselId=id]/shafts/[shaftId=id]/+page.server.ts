@@ -6,7 +6,7 @@ import { actorOf } from '$lib/server/audit';
 import { ApiError, fieldErrors } from '$lib/server/api/errors';
 import { getShaft } from '$lib/server/fleet/repository';
 import { shaftLimits } from '$lib/server/alarms/limits';
-import { changedSettings, SETTING_KEYS, toFormValue } from '$lib/alarms/settings-form';
+import { changedSettings, SETTING_KEYS, SHAFT_SETTING_KEYS, toFormValue } from '$lib/alarms/settings-form';
 import { outOfServiceBody } from '$lib/schemas/alarms';
 import { SHAFT_ALARM_TYPES } from '$lib/alarms/types';
 
@@ -31,7 +31,7 @@ export const actions: Actions = {
 		const ctx = context();
 		const shaftId = Number(params.shaftId);
 		const current = ctx.services.alarms!.settings.forShaft(shaftId);
-		const { update, errors } = changedSettings(await request.formData(), current, user.units);
+		const { update, errors } = changedSettings(await request.formData(), current, user.units, SHAFT_SETTING_KEYS);
 		if (Object.keys(errors).length) return fail(400, { settings: { errors, saved: false } });
 		try {
 			await ctx.services.alarms!.settings.update({ shaftId, vesselId: Number(params.vesselId) }, update, actorOf(user));

@@ -1,0 +1,144 @@
+/**
+ * A logger file as a table of text cells, parsed by csv-parse (quotes,
+ * embedded delimiters and line breaks handled there, not here). Loggers in
+ * countries with a decimal comma write ';' between fields; some write tabs.
+ */
+import { parse } from 'csv-parse/sync';
+
+import { DELIMITERS, type Delimiter, type TableRow } from './delimiters';
+
+export { DELIMITERS, DELIMITER_LABELS, type Delimiter, type TableRow } from './delimiters';
+
+export function parseTable(
+	text: string,
+	delimiter: Delimiter,
+	options: { toLine?: number } = {}
+): TableRow[] {
+	// one line ending for the file, the first kind found (as csv-parse itself decides)
+	const eol = text.includes('\r\n') ? '\r\n' : text.includes('\n') ? '\n' : '\r';
+	const common = {
+		delimiter,
+		record_delimiter: eol,
+		bom: true,
+		relax_column_count: true,
+		relax_quotes: true,
+		skip_empty_lines: true,
+		trim: true,
+		...(options.toLine ? { to_line: options.toLine } : {})
+	};
+	// Without quotes a record is a line, so the lines can be counted here: csv-parse's
+	// per-record info (the slow path) costs it almost three times the parse.
+	if (!text.includes('"')) {
+		const records = parse(text, common) as string[][];
+		const lines = nonEmptyLines(text, eol);
+		const out: TableRow[] = [];
+		for (let i = 0; i < records.length; i++) {
+			if (records[i].some((c) => c !== '')) out.push({ line: lines[i], cells: records[i] });
+		}
+		return out;
+	}
+	const records = parse(text, { ...common, info: true }) as unknown as {
+		record: string[];
+		info: { lines: number; empty_lines: number };
+	}[];
+	// info.lines is where a record ends; it starts after the previous one and the blank lines between
+	const out: TableRow[] = [];
+	let prevEnd = 0;
+	let prevEmpty = 0;
+	for (const r of records) {
+		const line = prevEnd + 1 + (r.info.empty_lines - prevEmpty);
+		prevEnd = r.info.lines;
+		prevEmpty = r.info.empty_lines;
+		if (r.record.some((c) => c !== '')) out.push({ line, cells: r.record });
+	}
+	return out;
+}
+
+/** Numbers (from 1) of the lines with something on them (csv-parse, trimming, skips blank ones). */
+function nonEmptyLines(text: string, eol: string): number[] {
+	const out: number[] = [];
+	let line = 1;
+	let start = 0;
+	for (;;) {
+		const end = text.indexOf(eol, start);
+		const stop = end < 0 ? text.length : end;
+		if (stop > start && /\S/.test(text.slice(start, stop))) out.push(line);
+		if (end < 0) return out;
+		line++;
+		start = end + eol.length;
+	}
+}
+
+/** The first lines of the file, for guessing; a cut line at the end is dropped by the caller's to_line. */
+function head(text: string, lines: number): string {
+	let end = 0;
+	for (let i = 0; i < lines && end >= 0; i++) end = text.indexOf('\n', end + 1);
+	return end < 0 ? text : text.slice(0, end);
+}
+
+/**
+ * The delimiter that splits the first rows into the same number (> 1) of
+ * cells most consistently; ties go in the order comma, semicolon, tab.
+ */
+export function detectDelimiter(text: string): Delimiter {
+	const sample = head(text, 30);
+	let best: Delimiter = ',';
+	let bestScore = -Infinity;
+	for (const d of DELIMITERS) {
+		let rows: TableRow[];
+		try {
+			rows = parseTable(sample, d);
+		} catch {
+			continue;
+		}
+		if (rows.length === 0) continue;
+		const counts = rows.map((r) => r.cells.length);
+		const mode = [...new Set(counts)].sort(
+			(a, b) => counts.filter((c) => c === b).length - counts.filter((c) => c === a).length
+		)[0];
+		if (mode < 2) continue;
+		const agree = counts.filter((c) => c === mode).length / counts.length;
+		const score = agree * 10 + Math.min(mode, 10) / 10;
+		if (score > bestScore) {
+			bestScore = score;
+			best = d;
+		}
+	}
+	return best;
+}
+
+const NUMBERISH = /^[+-]?(\d[\d\s]*([.,]\d*)?|[.,]\d+)([eE][+-]?\d+)?$/;
+const TIMEISH = /^\d{1,4}[-/.]\d{1,2}[-/.]\d{1,4}|^\d{1,2}:\d{2}/;
+
+const isData = (cell: string) => NUMBERISH.test(cell) || TIMEISH.test(cell);
+
+/** A first row with fewer number- or time-like cells than the second is a header row. */
+export function detectHeader(rows: TableRow[]): boolean {
+	if (rows.length < 2) return rows.length === 1 && !rows[0].cells.some(isData);
+	const dataLike = (r: TableRow) => r.cells.filter(isData).length;
+	return dataLike(rows[0]) < dataLike(rows[1]);
+}
+
+/** A comma decimal separator when the numbers of the first rows use one and none uses a point. */
+export function detectDecimal(rows: TableRow[], delimiter: Delimiter): '.' | ',' {
+	if (delimiter === ',') return '.';
+	let comma = 0;
+	let point = 0;
+	for (const r of rows.slice(0, 30)) {
+		for (const c of r.cells) {
+			if (/^[+-]?\d+,\d+$/.test(c)) comma++;
+			else if (/^[+-]?\d+\.\d+$/.test(c)) point++;
+		}
+	}
+	return comma > 0 && point === 0 ? ',' : '.';
+}
+
+/** The first `lines` lines of a file as a table, for the mapping step. */
+export function tableHead(text: string, delimiter: Delimiter, lines = 40): TableRow[] {
+	try {
+		return parseTable(head(text, lines), delimiter);
+	} catch {
+		// the cut fell inside a quoted cell that spans lines: let csv-parse find the end itself
+		return parseTable(text, delimiter, { toLine: lines });
+	}
+}

@@ -1,0 +1,42 @@
+/** Times and outcomes as this page shows them (server render and browser alike). */
+import type { MarkState } from '$lib/components/marks';
+
+/** "2026-12-01 14:03" in the given IANA zone */
+export function inZone(ms: number | string | null, timeZone: string): string {
+	if (ms === null) return '—';
+	const t = typeof ms === 'string' ? Date.parse(ms) : ms;
+	const parts = new Intl.DateTimeFormat('en-GB', {
+		timeZone,
+		year: 'numeric',
+		month: '2-digit',
+		day: '2-digit',
+		hour: '2-digit',
+		minute: '2-digit',
+		second: '2-digit',
+		hour12: false
+	}).formatToParts(t);
+	const p = (type: string) => parts.find((x) => x.type === type)?.value ?? '';
+	return `${p('year')}-${p('month')}-${p('day')} ${p('hour')}:${p('minute')}:${p('second')}`;
+}
+
+export type Outcome = 'pending' | 'done' | 'missed' | 'valve_stuck_open';
+
+/** outcome → shape and word (the colour follows the shape's state, never alone) */
+export const OUTCOME: Record<Outcome, { state: MarkState; label: string }> = {
+	pending: { state: 'stale', label: 'Pending' },
+	done: { state: 'normal', label: 'Done' },
+	missed: { state: 'warning', label: 'Missed' },
+	valve_stuck_open: { state: 'warning', label: 'Valve stuck open' }
+};
+
+/** the proof's finding in words */
+export const FINDING: Record<string, string> = {
+	waiting_to_open: 'waiting for the valve to report open',
+	waiting_to_close: 'valve open, waiting for it to close',
+	not_opened: 'the valve never reported open in time',
+	closed_early: 'the valve closed well before the purge time',
+	closed_in_time: 'opened and closed in time',
+	open_too_long: 'the valve stayed open far past the purge time',
+	publish_failed: 'the command could not be sent (broker unavailable)',
+	valve_already_open: 'not sent: the valve already reported open at the scheduled time'
+};

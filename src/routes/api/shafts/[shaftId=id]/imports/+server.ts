@@ -1,0 +1,69 @@
+import { json } from '@sveltejs/kit';
+import { ApiError } from '$lib/server/api/errors';
+import { requirePermission, route } from '$lib/server/api/handler';
+import { actorOf } from '$lib/server/audit';
+import { context } from '$lib/server/context';
+import { listImports } from '$lib/server/history/imports/repository';
+import { createImport } from '$lib/server/history/imports/service';
+import { shaftOfPath } from '$lib/server/history/route-helpers';
+import { MAX_UPLOAD_BYTES } from '$lib/history/import/sniff';
+
+/** Logger files uploaded for the shaft, newest first. */
+export const GET = route(async (event) => {
+	const h = await shaftOfPath(context(), event.params);
+	return { imports: await listImports(context().db, { shaftId: h.shaft.id }) };
+});
+
+/**
+ * The upload: multipart/form-data with a `file` field (the page's form), or
+ * the file itself as the body (Content-Type text/csv or text/plain, name in
+ * ?filename=) for scripts — SvelteKit refuses cross-origin form posts, and a
+ * script has no origin to send. Answers 201 with the stored upload, a
+ * suggested mapping and its preview.
+ */
+export const POST = route(async (event) => {
+	const user = requirePermission(event, 'history.upload');
+	const ctx = context();
+	const h = await shaftOfPath(ctx, event.params);
+	const type = (event.request.headers.get('content-type') ?? '').toLowerCase();
+	// the multipart envelope adds a few hundred bytes to the file
+	const length = Number(event.request.headers.get('content-length') ?? 0);
+	if (length > MAX_UPLOAD_BYTES + 64 * 1024) throw tooLarge(length);
+
+	let file: { name: string; type: string; bytes: Uint8Array };
+	if (type.startsWith('multipart/form-data')) {
+		let form: FormData;
+		try {
+			form = await event.request.formData();
+		} catch {
+			throw new ApiError(400, 'bad_body', 'the body is not readable multipart/form-data');
+		}
+		const part = form.get('file');
+		if (!(part instanceof File))
+			throw new ApiError(422, 'invalid', 'file: choose a file to upload', { file: 'required' });
+		if (part.size > MAX_UPLOAD_BYTES) throw tooLarge(part.size);
+		file = { name: part.name, type: part.type, bytes: new Uint8Array(await part.arrayBuffer()) };
+	} else if (type.startsWith('text/csv') || type.startsWith('text/plain')) {
+		const bytes = new Uint8Array(await event.request.arrayBuffer());
+		if (bytes.length > MAX_UPLOAD_BYTES) throw tooLarge(bytes.length);
+		file = {
+			name: event.url.searchParams.get('filename') || 'upload.csv',
+			type: type.split(';')[0],
+			bytes
+		};
+	} else {
+		throw new ApiError(
+			415,
+			'unsupported_media_type',
+			'send the file as multipart/form-data (field "file") or as a text/csv body'
+		);
+	}
+	return json(await createImport(ctx, actorOf(user), h, file), { status: 201 });
+});
+
+const tooLarge = (bytes: number) =>
+	new ApiError(
+		413,
+		'too_large',
+		`the upload is ${(bytes / 1_048_576).toFixed(1)} MB; the limit is ${MAX_UPLOAD_BYTES / 1_048_576} MB — split the logger file by month`
+	);
