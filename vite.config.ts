@@ -12,6 +12,7 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
+					sequence: { groupOrder: 0 },
 					include: ['src/**/*.test.ts', 'simulator/**/*.test.ts']
 				}
 			},
@@ -20,6 +21,8 @@ export default defineConfig({
 				test: {
 					name: 'integration',
 					environment: 'node',
+					// after the unit tests, not beside them
+					sequence: { groupOrder: 1 },
 					include: ['tests/*.test.ts'],
 					testTimeout: 60_000,
 					hookTimeout: 120_000,
@@ -33,6 +36,7 @@ export default defineConfig({
 				test: {
 					name: 'browser',
 					environment: 'node',
+					sequence: { groupOrder: 2 },
 					include: ['tests/e2e/**/*.test.ts'],
 					testTimeout: 120_000,
 					hookTimeout: 180_000,
