@@ -46,8 +46,8 @@ const absentOrInRange = (v: unknown, range: readonly [number, number]) => v === 
 /**
  * What telemetryPayload accepts, for the shape gateways send nearly always
  * (ts in epoch ms, every reading a number in range, or null, or absent),
- * without zod: at ingest rates zod is ~15 % of the main thread's time per
- * message (bench:ingest). Anything else — an ISO ts, a bad value — gives
+ * without zod: zod takes ~0.7 µs a message, this ~0.2 µs, and at ingest
+ * rates zod was a tenth of the main thread (bench:ingest). Anything else — an ISO ts, a bad value — gives
  * undefined, and the caller goes through telemetryPayload, which accepts it
  * or says why not. NaN and ±Infinity fail the range checks, as in zod.
  */
