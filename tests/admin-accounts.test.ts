@@ -5,44 +5,19 @@
  * work as Bearer until revoked.
  */
 import Database from 'better-sqlite3';
-import { parse } from 'devalue';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer, type TestServer } from './helpers/server';
-import { client, signIn, type Client } from './helpers/http';
+import { client, postAction, signIn, type Client, type FormFields } from './helpers/http';
 import { waitFor } from './helpers/ports';
+import { vesselIds } from './helpers/sqlite';
 
 let server: TestServer;
 let admin: Client;
 let db: Database.Database;
-const ids: Record<string, number> = {};
+let ids: Record<string, number>;
 
-interface ActionAnswer {
-	status: number;
-	type: 'success' | 'failure' | 'redirect' | 'error';
-	failure?: number;
-	data?: Record<string, any>;
-	headers: Headers;
-}
-
-// the same helper as in admin-fleet.test.ts: posts a form action as `use:enhance` does
-async function act(c: Client, path: string, fields: Record<string, string | string[]> = {}) {
-	const body = new URLSearchParams();
-	for (const [k, v] of Object.entries(fields)) for (const one of [v].flat()) body.append(k, one);
-	const res = await c.request('POST', path, body.toString(), {
-		'content-type': 'application/x-www-form-urlencoded',
-		origin: server.env.ORIGIN,
-		accept: 'application/json',
-		'x-sveltekit-action': 'true'
-	});
-	const json = await res.json();
-	return {
-		status: res.status,
-		type: json.type,
-		failure: json.type === 'failure' ? json.status : undefined,
-		data: typeof json.data === 'string' ? parse(json.data) : undefined,
-		headers: res.headers
-	} as ActionAnswer;
-}
+const act = (c: Client, path: string, fields?: FormFields) =>
+	postAction(c, server.env.ORIGIN, path, fields);
 
 const userRow = (email: string) =>
 	db.prepare('select * from users where email = ?').get(email) as Record<string, any> | undefined;
@@ -75,11 +50,7 @@ beforeAll(async () => {
 	server = await startServer();
 	db = new Database(server.dbPath, { readonly: true, fileMustExist: true });
 	admin = await signIn(server.url, 'admin@demo.test');
-	for (const v of db.prepare('select id, code from vessels').all() as {
-		id: number;
-		code: string;
-	}[])
-		ids[v.code] = v.id;
+	ids = vesselIds(db);
 });
 afterAll(async () => {
 	db?.close();

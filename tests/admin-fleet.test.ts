@@ -7,52 +7,22 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { parse } from 'devalue';
 import type { MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer, type TestServer } from './helpers/server';
-import { client, signIn, type Client } from './helpers/http';
+import { client, postAction, signIn, type Client, type FormFields } from './helpers/http';
 import { connectGateway, telemetry } from './helpers/gateway';
 import { waitFor } from './helpers/ports';
+import { vesselIds } from './helpers/sqlite';
 
 let server: TestServer;
 let admin: Client;
 let usAdmin: Client; // an administrator who works in US customary units
 let db: Database.Database;
-const ids: Record<string, number> = {};
+let ids: Record<string, number>;
 
-interface ActionAnswer {
-	/** HTTP status: 200 for success and failure alike, the error's status for error() */
-	status: number;
-	type: 'success' | 'failure' | 'redirect' | 'error';
-	/** fail()'s status */
-	failure?: number;
-	data?: Record<string, any>;
-	location?: string;
-	headers: Headers;
-}
-
-/** Posts a form action as `use:enhance` does, and reads SvelteKit's answer. */
-async function act(c: Client, path: string, fields: Record<string, string | string[]> = {}) {
-	const body = new URLSearchParams();
-	for (const [k, v] of Object.entries(fields)) for (const one of [v].flat()) body.append(k, one);
-	const res = await c.request('POST', path, body.toString(), {
-		'content-type': 'application/x-www-form-urlencoded',
-		// CSRF: SvelteKit compares this with ORIGIN
-		origin: server.env.ORIGIN,
-		accept: 'application/json',
-		'x-sveltekit-action': 'true'
-	});
-	const json = await res.json();
-	return {
-		status: res.status,
-		type: json.type,
-		failure: json.type === 'failure' ? json.status : undefined,
-		data: typeof json.data === 'string' ? parse(json.data) : undefined,
-		location: json.location,
-		headers: res.headers
-	} as ActionAnswer;
-}
+const act = (c: Client, path: string, fields?: FormFields) =>
+	postAction(c, server.env.ORIGIN, path, fields);
 
 const vesselRow = (code: string) =>
 	db.prepare('select * from vessels where code = ?').get(code) as Record<string, any> | undefined;
@@ -75,11 +45,7 @@ beforeAll(async () => {
 	expect(created.status).toBe(201);
 	usAdmin = await signIn(server.url, 'yard.admin@example.org', 'keel-block-harbour-7');
 	expect((await usAdmin.put('/api/me/preferences', { units: 'us' })).status).toBe(200);
-	for (const v of db.prepare('select id, code from vessels').all() as {
-		id: number;
-		code: string;
-	}[])
-		ids[v.code] = v.id;
+	ids = vesselIds(db);
 });
 afterAll(async () => {
 	db?.close();

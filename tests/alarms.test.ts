@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { MqttClient } from 'mqtt';
-import { startTestApp, type TestApp } from './helpers/app';
+import { settle, shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { connectGateway } from './helpers/gateway';
 import { waitFor } from './helpers/ports';
 import { publishSeries, steady } from './helpers/series';
@@ -27,25 +27,11 @@ afterAll(async () => {
 	await app?.stop();
 });
 
-async function shaftId(vessel: string, shaft: string) {
-	const row = await app.ctx.db
-		.selectFrom('shafts')
-		.innerJoin('vessels', 'vessels.id', 'shafts.vessel_id')
-		.select('shafts.id')
-		.where('vessels.code', '=', vessel)
-		.where('shafts.code', '=', shaft)
-		.executeTakeFirstOrThrow();
-	return row.id;
-}
-
-/** Everything published so far is judged and stored. */
-async function settle() {
-	await app.ctx.services.telemetry!.pipeline.drain();
-	await app.ctx.services.alarms!.store.idle();
-}
+const shaftId = async (vessel: string, shaft: string) =>
+	(await shaftIds(app.ctx, vessel, shaft)).shaftId;
 
 async function alarmsOf(id: number, type: AlarmType) {
-	await settle();
+	await settle(app.ctx);
 	return app.ctx.db.selectFrom('alarms').selectAll().where('shaft_id', '=', id).where('type', '=', type).orderBy('id').execute();
 }
 

@@ -6,7 +6,7 @@
  * their arithmetic; the last test proves rollup-based == raw-based.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { coverageFromPoints, HOUR_MS, MINUTE_MS, sharesOf } from '$lib/compliance';
 import { coverageOf, shaftCompliance } from '$lib/server/history/compliance';
 import { readBuckets, readSamples } from '$lib/server/history/samples';
@@ -22,14 +22,7 @@ let T: number;
 const pipeline = () => app.ctx.services.telemetry!.pipeline;
 
 async function shaft(vessel: string, code: string) {
-	const row = await app.ctx.db
-		.selectFrom('shafts')
-		.innerJoin('vessels', 'vessels.id', 'shafts.vessel_id')
-		.select('shafts.id')
-		.where('vessels.code', '=', vessel)
-		.where('shafts.code', '=', code)
-		.executeTakeFirstOrThrow();
-	return (await shaftHistory(app.ctx, row.id))!;
+	return (await shaftHistory(app.ctx, (await shaftIds(app.ctx, vessel, code)).shaftId))!;
 }
 
 async function ingest(h: ShaftHistory, rows: { ts: number; flow_lpm: number }[]) {

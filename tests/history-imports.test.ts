@@ -4,9 +4,9 @@
  * history-http.test.ts). Imported rows go through the real ingest pipeline
  * into the real SQLite file.
  */
-import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, shaftIds, startTestApp, type TestApp } from './helpers/app';
+import { routeEvent } from './helpers/route';
 import * as users from '$lib/server/users/repository';
 import { samplesCsv } from '$lib/server/history/export';
 import { coverageOf } from '$lib/server/history/compliance';
@@ -30,39 +30,17 @@ let larkStbd: ShaftHistory;
 
 const HOUR = 3_600_000;
 
-async function user(email: string) {
-	return users.toAppUser(app.ctx.db, (await users.findByEmail(app.ctx.db, email))!);
-}
+const user = (email: string) => appUser(app.ctx, email);
+
 async function shaft(vessel: string, code: string) {
-	const row = await app.ctx.db
-		.selectFrom('shafts')
-		.innerJoin('vessels', 'vessels.id', 'shafts.vessel_id')
-		.select('shafts.id')
-		.where('vessels.code', '=', vessel)
-		.where('shafts.code', '=', code)
-		.executeTakeFirstOrThrow();
-	return (await shaftHistory(app.ctx, row.id))!;
+	return (await shaftHistory(app.ctx, (await shaftIds(app.ctx, vessel, code)).shaftId))!;
 }
 
-function event(
+const event = (
 	u: users.AppUser,
 	params: Record<string, string | number>,
-	init: { method?: string; body?: BodyInit; json?: unknown; query?: string } = {}
-): RequestEvent {
-	const url = `http://localhost:3000/api/test${init.query ? `?${init.query}` : ''}`;
-	const request = new Request(url, {
-		method: init.method ?? (init.body || init.json ? 'POST' : 'GET'),
-		headers: init.json !== undefined ? { 'content-type': 'application/json' } : undefined,
-		body: init.json !== undefined ? JSON.stringify(init.json) : init.body
-	});
-	return {
-		request,
-		url: new URL(url),
-		params: Object.fromEntries(Object.entries(params).map(([k, v]) => [k, String(v)])),
-		locals: { user: u, session: null },
-		getClientAddress: () => '192.0.2.1'
-	} as unknown as RequestEvent;
-}
+	{ query, ...init }: { method?: string; body?: BodyInit; json?: unknown; query?: string } = {}
+) => routeEvent({ ...init, path: `/api/test${query ? `?${query}` : ''}`, params, user: u });
 
 function upload(
 	u: users.AppUser,

@@ -4,9 +4,9 @@
  * answer for unknown addresses (and no mail to them), and the throttles.
  * Route modules are called directly with a request event, so no build is needed.
  */
-import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, startTestApp, type TestApp } from './helpers/app';
+import { routeEvent } from './helpers/route';
 import { waitFor } from './helpers/ports';
 import { actorOf } from '$lib/server/audit';
 import { checkCredentials } from '$lib/server/auth/sign-in';
@@ -38,11 +38,7 @@ afterAll(async () => {
 
 const NEW_PASSWORD = 'brass-sextant-tide-42';
 
-async function user(email: string) {
-	const row = await users.findByEmail(app.ctx.db, email);
-	if (!row) throw new Error(`no user ${email}`);
-	return users.toAppUser(app.ctx.db, row);
-}
+const user = (email: string) => appUser(app.ctx, email);
 
 /** Every message the sink received for an address, oldest first. */
 async function sinkMail(address: string) {
@@ -82,24 +78,16 @@ function event(
 		params?: Record<string, string>;
 		form?: boolean;
 	} = {}
-): RequestEvent {
-	const request = options.form
-		? new Request('http://localhost:3000/form', {
-				method: 'POST',
-				body: new URLSearchParams(body as Record<string, string>)
-			})
-		: new Request('http://localhost:3000/api', {
-				method: 'POST',
-				headers: { 'content-type': 'application/json' },
-				body: JSON.stringify(body)
-			});
-	return {
-		request,
-		url: new URL(request.url),
-		params: options.params ?? {},
-		locals: { user: options.user ?? null, session: null },
-		getClientAddress: () => options.client ?? '192.0.2.1'
-	} as unknown as RequestEvent;
+) {
+	return routeEvent({
+		method: 'POST',
+		...(options.form
+			? { path: '/form', body: new URLSearchParams(body as Record<string, string>) }
+			: { path: '/api', json: body }),
+		params: options.params,
+		user: options.user,
+		clientAddress: options.client
+	});
 }
 
 describe('invitations', () => {

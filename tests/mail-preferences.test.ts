@@ -4,9 +4,9 @@
  * alarm priority that on-board engineers cannot switch off. Also the admin
  * mail API's role check. Route modules are called directly with an event.
  */
-import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, startTestApp, type TestApp } from './helpers/app';
+import { routeEvent } from './helpers/route';
 import * as users from '$lib/server/users/repository';
 import { getPreferences } from '$lib/server/mail/preferences';
 import * as prefsApi from '../src/routes/api/me/preferences/+server';
@@ -24,30 +24,10 @@ afterAll(async () => {
 	await app?.stop();
 });
 
-async function user(email: string) {
-	const row = await users.findByEmail(app.ctx.db, email);
-	return users.toAppUser(app.ctx.db, row!);
-}
+const user = (email: string) => appUser(app.ctx, email);
 
-function event(
-	method: string,
-	u: users.AppUser,
-	body?: unknown,
-	path = '/api/me/preferences'
-): RequestEvent {
-	const request = new Request(`http://localhost:3000${path}`, {
-		method,
-		headers: body === undefined ? {} : { 'content-type': 'application/json' },
-		body: body === undefined ? undefined : JSON.stringify(body)
-	});
-	return {
-		request,
-		url: new URL(request.url),
-		params: {},
-		locals: { user: u, session: null },
-		getClientAddress: () => '192.0.2.9'
-	} as unknown as RequestEvent;
-}
+const event = (method: string, u: users.AppUser, body?: unknown, path = '/api/me/preferences') =>
+	routeEvent({ method, path, user: u, json: body, clientAddress: '192.0.2.9' });
 
 const put = async (u: users.AppUser, body: unknown) => {
 	const res = await prefsApi.PUT(event('PUT', u, body) as never);

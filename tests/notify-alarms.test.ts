@@ -11,14 +11,14 @@
  * 3.785411784 L (NIST SP 811, Appendix B): 40 L/min = 10.567 gpm, 63 L/min =
  * 16.643 gpm, shown to one decimal.
  */
-import type { RequestEvent } from '@sveltejs/kit';
 import type { MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, settle, shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { connectGateway } from './helpers/gateway';
+import * as mail from './helpers/mail';
 import { waitFor } from './helpers/ports';
+import { routeEvent } from './helpers/route';
 import { publishSeries, steady } from './helpers/series';
-import * as users from '$lib/server/users/repository';
 import * as settingsApi from '../src/routes/api/vessels/[vesselId=id]/notification-settings/+server';
 
 let app: TestApp;
@@ -46,93 +46,28 @@ const db = () => app.ctx.db;
 const engine = () => app.ctx.services.alarms!.engine;
 const notify = () => app.ctx.services.notify!;
 
-async function ids(vessel: string, shaft: string) {
-	return db()
-		.selectFrom('shafts')
-		.innerJoin('vessels', 'vessels.id', 'shafts.vessel_id')
-		.select(['shafts.id as shaftId', 'vessels.id as vesselId'])
-		.where('vessels.code', '=', vessel)
-		.where('shafts.code', '=', shaft)
-		.executeTakeFirstOrThrow();
-}
-
-async function user(email: string) {
-	return users.toAppUser(db(), (await users.findByEmail(db(), email))!);
-}
+const ids = (vessel: string, shaft: string) => shaftIds(app.ctx, vessel, shaft);
 
 /** PUT through the route module, as the chief engineer. */
 async function putSettings(vesselId: number, body: unknown) {
-	const request = new Request(
-		`http://localhost:3000/api/vessels/${vesselId}/notification-settings`,
-		{
-			method: 'PUT',
-			headers: { 'content-type': 'application/json' },
-			body: JSON.stringify(body)
-		}
-	);
-	const event = {
-		request,
-		url: new URL(request.url),
-		params: { vesselId: String(vesselId) },
-		locals: { user: await user('chief@demo.test'), session: null }
-	} as unknown as RequestEvent;
+	const event = routeEvent({
+		method: 'PUT',
+		path: `/api/vessels/${vesselId}/notification-settings`,
+		params: { vesselId },
+		user: await appUser(app.ctx, 'chief@demo.test'),
+		json: body
+	});
 	const res = await settingsApi.PUT(event as never);
 	expect(res.status).toBe(200);
 }
 
-async function settle() {
-	await app.ctx.services.telemetry!.pipeline.drain();
-	await app.ctx.services.alarms!.store.idle();
-}
-
-/** Messages that reached the sink over SMTP, with what the outbox knows of them. */
-async function delivered(to: string, kind?: string) {
-	return db()
-		.selectFrom('mail_sink')
-		.innerJoin('mail_outbox', 'mail_outbox.message_id', 'mail_sink.message_id')
-		.select([
-			'mail_outbox.kind',
-			'mail_outbox.thread_key',
-			'mail_sink.message_id',
-			'mail_sink.subject',
-			'mail_sink.text',
-			'mail_sink.in_reply_to',
-			'mail_sink.references_header',
-			'mail_sink.envelope_to'
-		])
-		.where('mail_outbox.to_address', '=', to)
-		.$if(kind !== undefined, (q) => q.where('mail_outbox.kind', '=', kind!))
-		.orderBy('mail_sink.id')
-		.execute();
-}
-
-/** Everything queued so far has left the outbox (so a count is final). */
-async function outboxDrained() {
-	await waitFor(
-		async () => {
-			const row = await db()
-				.selectFrom('mail_outbox')
-				.select((eb) => eb.fn.countAll<number>().as('n'))
-				.where('status', 'in', ['queued', 'sending'])
-				.executeTakeFirstOrThrow();
-			return Number(row.n) === 0;
-		},
-		{ what: 'the outbox to drain' }
-	);
-}
-
-async function waitForMail(to: string, kind: string, n = 1, match?: (text: string) => boolean) {
-	return waitFor(
-		async () => {
-			const rows = (await delivered(to, kind)).filter((r) => !match || match(r.text ?? ''));
-			return rows.length >= n ? rows : null;
-		},
-		{ what: `${n} ${kind} to ${to}`, timeoutMs: 15_000 }
-	);
-}
+const delivered = (to: string, kind?: string) => mail.deliveredMail(app.ctx, to, kind);
+const outboxDrained = () => mail.outboxDrained(app.ctx);
+const waitForMail = (to: string, kind: string, n = 1, match?: (text: string) => boolean) =>
+	mail.waitForMail(app.ctx, to, { kind, n, match });
 
 async function openAlarm(shaftId: number) {
-	await settle();
+	await settle(app.ctx);
 	return db()
 		.selectFrom('alarms')
 		.selectAll()
@@ -228,7 +163,7 @@ describe('a pump trip on corrin-bay’s port shaft', () => {
 			t0,
 			steady(32, 60, { flow_lpm: 110 })
 		);
-		await settle();
+		await settle(app.ctx);
 		const recovered = (t: string) => t.includes('Returned to normal');
 		const [normal] = await waitForMail('chief@demo.test', 'alarm_followup', 1, recovered);
 		await waitForMail('tech@demo.test', 'alarm_followup', 1, recovered);
@@ -277,7 +212,7 @@ describe('acknowledged in time (skerry-lark port, escalation 60 s)', () => {
 		expect(raised.text).toContain('Reading:    5.0 L/min, minimum 22.5 L/min');
 		const alarm = await openAlarm(shaftId);
 		await engine().act(alarm.id, { type: 'acknowledge', at: Date.now() }, chiefActor, null);
-		await settle();
+		await settle(app.ctx);
 
 		// judged two minutes on: past the 60 s, but acknowledged
 		await notify().pass(Date.now() + 120_000);
@@ -317,7 +252,7 @@ describe('a chattering shaft (hallow-tern main, 90 L/min minimum)', () => {
 				t0,
 				steady(base + 27, base + 55, { flow_lpm: 150 })
 			);
-			await settle();
+			await settle(app.ctx);
 		}
 		const instances = await db()
 			.selectFrom('alarms')

@@ -12,7 +12,8 @@
  * below each = 5 min below; 24 h − 10 min covered = 23 h 50 min without data.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, startTestApp, type TestApp } from './helpers/app';
+import { deliveredMail } from './helpers/mail';
 import { waitFor } from './helpers/ports';
 import * as users from '$lib/server/users/repository';
 import { savePreferences } from '$lib/server/mail/preferences';
@@ -114,19 +115,8 @@ async function purge(vesselId: number, at: number, outcome: 'done' | 'missed') {
 		.execute();
 }
 
-async function user(email: string) {
-	return users.toAppUser(db(), (await users.findByEmail(db(), email))!);
-}
-
-async function deliveredDigest(to: string) {
-	return db()
-		.selectFrom('mail_sink')
-		.innerJoin('mail_outbox', 'mail_outbox.message_id', 'mail_sink.message_id')
-		.select(['mail_sink.subject', 'mail_sink.text', 'mail_sink.message_id'])
-		.where('mail_outbox.to_address', '=', to)
-		.where('mail_outbox.kind', '=', 'daily_digest')
-		.execute();
-}
+const user = (email: string) => appUser(app.ctx, email);
+const deliveredDigest = (to: string) => deliveredMail(app.ctx, to, 'daily_digest');
 
 beforeAll(async () => {
 	app = await startTestApp();

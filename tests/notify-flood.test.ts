@@ -11,9 +11,9 @@
  */
 import type { MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { settle, startTestApp, type TestApp } from './helpers/app';
 import { connectGateway } from './helpers/gateway';
-import { waitFor } from './helpers/ports';
+import * as mail from './helpers/mail';
 import { publishSeries, steady } from './helpers/series';
 import { saveSettings } from '$lib/server/notify/settings';
 
@@ -38,49 +38,9 @@ afterAll(async () => {
 
 const db = () => app.ctx.db;
 
-async function settle() {
-	await app.ctx.services.telemetry!.pipeline.drain();
-	await app.ctx.services.alarms!.store.idle();
-}
-
-async function delivered(to: string) {
-	return db()
-		.selectFrom('mail_sink')
-		.innerJoin('mail_outbox', 'mail_outbox.message_id', 'mail_sink.message_id')
-		.select([
-			'mail_outbox.kind',
-			'mail_outbox.thread_key',
-			'mail_sink.message_id',
-			'mail_sink.subject',
-			'mail_sink.text',
-			'mail_sink.in_reply_to',
-			'mail_sink.references_header'
-		])
-		.where('mail_outbox.to_address', '=', to)
-		.orderBy('mail_sink.id')
-		.execute();
-}
-
-async function drained() {
-	await waitFor(
-		async () => {
-			const row = await db()
-				.selectFrom('mail_outbox')
-				.select((eb) => eb.fn.countAll<number>().as('n'))
-				.where('status', 'in', ['queued', 'sending'])
-				.executeTakeFirstOrThrow();
-			return Number(row.n) === 0;
-		},
-		{ what: 'the outbox to drain' }
-	);
-}
-
-async function until(to: string, n: number) {
-	return waitFor(async () => ((await delivered(to)).length >= n ? delivered(to) : null), {
-		what: `${n} messages to ${to}`,
-		timeoutMs: 15_000
-	});
-}
+const delivered = (to: string) => mail.deliveredMail(app.ctx, to);
+const drained = () => mail.outboxDrained(app.ctx);
+const until = (to: string, n: number) => mail.waitForMail(app.ctx, to, { n });
 
 describe('a flood of alarms on one vessel', () => {
 	const t0 = Date.now() - 300_000;
@@ -92,7 +52,7 @@ describe('a flood of alarms on one vessel', () => {
 				...steady(6, 26, { flow_lpm: 40, supply_bar: 0.3 })
 			]);
 		}
-		await settle();
+		await settle(app.ctx);
 		const open = await db()
 			.selectFrom('alarms')
 			.select('type')
@@ -161,7 +121,7 @@ describe('a flood of alarms on one vessel', () => {
 				steady(27, 55, { flow_lpm: 110, supply_bar: 2 })
 			);
 		}
-		await settle();
+		await settle(app.ctx);
 		const [, , normal] = await until('chief@demo.test', 3);
 		await app.ctx.services.notify!.pass(Date.now() + 3_600_000);
 		await drained();

@@ -9,30 +9,20 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { startApp } from '$lib/server/app';
-import { loadConfig } from '$lib/server/config';
 import type { AppContext } from '$lib/server/context';
 import { saveSettings } from '$lib/server/notify/settings';
+import { settle, testAppConfig } from './helpers/app';
 import { connectGateway } from './helpers/gateway';
-import { freePort, waitFor } from './helpers/ports';
+import { waitFor } from './helpers/ports';
 import { publishSeries, steady } from './helpers/series';
 
 const dir = mkdtempSync(join(tmpdir(), 'aftwater-notify-restart-'));
 let ctx: AppContext | undefined;
 
 async function start() {
-	const mqttPort = await freePort();
-	const config = loadConfig({
-		DATABASE_PATH: join(dir, 'aftwater.db'),
-		DEMO: '1',
-		SIMULATOR: 'off',
-		MQTT_HOST: '127.0.0.1',
-		MQTT_PORT: String(mqttPort),
-		SMTP_PORT: String(await freePort()),
-		ORIGIN: 'http://localhost:3000',
-		INGEST_FLUSH_MS: '20'
-	});
+	const config = await testAppConfig(join(dir, 'aftwater.db'));
 	ctx = await startApp(config, { quiet: true });
-	return { ctx, mqttPort };
+	return { ctx, mqttPort: config.MQTT_PORT };
 }
 
 async function stop() {
@@ -65,8 +55,7 @@ describe('across restarts', () => {
 			...steady(0, 5, { flow_lpm: 110 }),
 			...steady(6, 26, { flow_lpm: 40 })
 		]);
-		await first.ctx.services.telemetry!.pipeline.drain();
-		await first.ctx.services.alarms!.store.idle();
+		await settle(first.ctx);
 		gw.end(true);
 		const held = await first.ctx.db
 			.selectFrom('notify_incidents')

@@ -5,9 +5,9 @@
  * values. Route modules are called directly with an event (as the mail tests
  * do); the vessel scope of the `vesselId` parameter is the hooks' guard.
  */
-import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from './helpers/app';
+import { appUser, startTestApp, type TestApp } from './helpers/app';
+import { routeEvent } from './helpers/route';
 import * as users from '$lib/server/users/repository';
 import { savePreferences } from '$lib/server/mail/preferences';
 import { routeInScope } from '$lib/server/auth/guard';
@@ -28,26 +28,16 @@ afterAll(async () => {
 	await app?.stop();
 });
 
-async function user(email: string) {
-	return users.toAppUser(app.ctx.db, (await users.findByEmail(app.ctx.db, email))!);
-}
+const user = (email: string) => appUser(app.ctx, email);
 
-function event(method: string, u: users.AppUser, vesselId: number, body?: unknown): RequestEvent {
-	const request = new Request(
-		`http://localhost:3000/api/vessels/${vesselId}/notification-settings`,
-		{
-			method,
-			headers: body === undefined ? {} : { 'content-type': 'application/json' },
-			body: body === undefined ? undefined : JSON.stringify(body)
-		}
-	);
-	return {
-		request,
-		url: new URL(request.url),
-		params: { vesselId: String(vesselId) },
-		locals: { user: u, session: null }
-	} as unknown as RequestEvent;
-}
+const event = (method: string, u: users.AppUser, vesselId: number, body?: unknown) =>
+	routeEvent({
+		method,
+		path: `/api/vessels/${vesselId}/notification-settings`,
+		params: { vesselId },
+		user: u,
+		json: body
+	});
 
 async function call(method: 'GET' | 'PUT', email: string, vesselId: number, body?: unknown) {
 	const handler = method === 'GET' ? api.GET : api.PUT;

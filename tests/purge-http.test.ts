@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Database from 'better-sqlite3';
 import { startServer, type TestServer } from './helpers/server';
-import { signIn, type Client } from './helpers/http';
+import { postForm, signIn, type Client } from './helpers/http';
 
 let server: TestServer;
 let tech: Client; // technician of corrin-bay and hallow-tern only
@@ -221,19 +221,10 @@ describe('the separator page', () => {
 		expect(html).not.toContain('Purge now…');
 	});
 
-	/** A form action as the page's enhanced form posts it (SvelteKit answers JSON then). */
+	/** A form action's raw JSON answer: `data` stays devalue text, which the checks search as text. */
 	async function action(c: Client, code: string, name: string, fields: [string, string][]) {
-		const res = await c.request(
-			'POST',
-			`/vessels/${ids[code]}/separator?/${name}`,
-			new URLSearchParams(fields).toString(),
-			{
-				'content-type': 'application/x-www-form-urlencoded',
-				origin: server.env.ORIGIN,
-				accept: 'application/json',
-				'x-sveltekit-action': 'true'
-			}
-		);
+		const path = `/vessels/${ids[code]}/separator?/${name}`;
+		const res = await postForm(c, server.env.ORIGIN, path, new URLSearchParams(fields));
 		return (await res.json()) as { type: string; status?: number; data?: string };
 	}
 

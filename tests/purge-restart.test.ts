@@ -10,11 +10,10 @@ import Database from 'better-sqlite3';
 import cron from 'node-cron';
 import type { MqttClient } from 'mqtt';
 import { startApp } from '$lib/server/app';
-import { loadConfig } from '$lib/server/config';
 import type { AppContext } from '$lib/server/context';
-import { startTestApp } from './helpers/app';
+import { startTestApp, testAppConfig } from './helpers/app';
 import { connectGateway, PREFIX } from './helpers/gateway';
-import { freePort, waitFor } from './helpers/ports';
+import { waitFor } from './helpers/ports';
 
 let ctx: AppContext;
 let dir: string;
@@ -72,16 +71,7 @@ beforeAll(async () => {
 	insert.run(pending('h-waiting', ids['hallow-tern'], now));
 	sqlite.close();
 
-	const config = loadConfig({
-		DATABASE_PATH: first.dbPath,
-		DEMO: '1',
-		SIMULATOR: 'off',
-		MQTT_HOST: '127.0.0.1',
-		MQTT_PORT: String(await freePort()),
-		SMTP_PORT: String(await freePort()),
-		ORIGIN: 'http://localhost:3000',
-		INGEST_FLUSH_MS: '20'
-	});
+	const config = await testAppConfig(first.dbPath);
 	ctx = await startApp(config, { quiet: true });
 	await ctx.services.purge!.verifier.idle();
 	gw = await connectGateway(config.MQTT_PORT, 'hallow-tern');

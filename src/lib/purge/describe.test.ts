@@ -1,17 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import cron from 'node-cron';
-import type { PurgeSchedule } from './input';
 import { cronExpressionFor, describeSchedule, formatInterval } from './describe';
 import { runMinutesOfDay } from './schedule';
-
-const schedule = (over: Partial<PurgeSchedule> = {}): PurgeSchedule => ({
-	enabled: true,
-	interval_min: 240,
-	duration_s: 20,
-	offset_min: 30,
-	quiet_hours: [],
-	...over
-});
+import { schedule } from './test-fixtures';
 
 describe('formatInterval', () => {
 	it('writes hours and minutes', () => {

@@ -1,24 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import type { PurgeSchedule } from './input';
 import { isDue, nextRuns } from './schedule';
+import { CHICAGO, iso, ms, OSLO, schedule, SINGAPORE } from './test-fixtures';
 
-// Clock changes from the IANA tz database (EU rule: last Sunday of March/October at 01:00 UTC;
-// US rule: second Sunday of March / first Sunday of November at 02:00 local).
-const OSLO = 'Europe/Oslo'; // 2026-03-29 01:00Z CET+1 → CEST+2; 2026-10-25 01:00Z back to CET
-const CHICAGO = 'America/Chicago'; // 2026-03-08 08:00Z CST−6 → CDT−5; 2026-11-01 07:00Z back
-const SINGAPORE = 'Asia/Singapore'; // +08:00 all year, no daylight saving
-
-const schedule = (over: Partial<PurgeSchedule> = {}): PurgeSchedule => ({
-	enabled: true,
-	interval_min: 240,
-	duration_s: 20,
-	offset_min: 30,
-	quiet_hours: [],
-	...over
-});
-const iso = (runs: Date[]) => runs.map((d) => d.toISOString());
-const ms = (text: string) => Date.parse(text);
 const MIN = 60_000;
 
 describe('daylight saving', () => {

@@ -1,21 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import type { PurgeSchedule } from './input';
 import { isDue, isQuiet, nextRuns, previewRuns, runMinutesOfDay } from './schedule';
+import { iso, ms, OSLO, schedule, SINGAPORE } from './test-fixtures';
 
-// Clock changes from the IANA tz database; the clock-change cases are in schedule-dst.test.ts.
-const OSLO = 'Europe/Oslo'; // 2026-03-29 01:00Z CET+1 → CEST+2; 2026-10-25 01:00Z back to CET
-const SINGAPORE = 'Asia/Singapore'; // +08:00 all year, no daylight saving
-
-const schedule = (over: Partial<PurgeSchedule> = {}): PurgeSchedule => ({
-	enabled: true,
-	interval_min: 240,
-	duration_s: 20,
-	offset_min: 30,
-	quiet_hours: [],
-	...over
-});
-const iso = (runs: Date[]) => runs.map((d) => d.toISOString());
-const ms = (text: string) => Date.parse(text);
+// The clock-change cases are in schedule-dst.test.ts.
 
 describe('run minutes of an ordinary day', () => {
 	it('starts at midnight + offset and steps by the interval within the day', () => {
