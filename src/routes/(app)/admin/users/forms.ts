@@ -1,4 +1,5 @@
 /** User forms → the users service's input (the API's shapes, validated by the same schemas). */
+import type { z } from 'zod';
 import { fieldErrors } from '$lib/server/api/errors';
 import { userCreate, userUpdate, type UserCreate, type UserUpdate } from '$lib/schemas/users';
 import { ONBOARD_ROLES, type Role } from '$lib/types';
@@ -28,6 +29,17 @@ function needsVessel(role: string, ids: number[], errors: Errors) {
 	}
 }
 
+/** The schema's answer, with the form's own wording and rule added to its errors. */
+function judged<T>(parsed: z.ZodSafeParseResult<T>, values: Values, ids: number[]): Parsed<T> {
+	const errors: Errors = {};
+	if (!parsed.success) Object.assign(errors, fieldErrors(parsed.error));
+	if (errors.role) errors.role = 'choose a role';
+	needsVessel(values.role, ids, errors);
+	if (!parsed.success || Object.keys(errors).length)
+		return { ok: false, values, vesselIds: ids, errors };
+	return { ok: true, data: parsed.data, values, vesselIds: ids };
+}
+
 export function userCreateForm(form: FormData): Parsed<UserCreate> {
 	// the password is never sent back to the page
 	const values: Values = {
@@ -37,29 +49,16 @@ export function userCreateForm(form: FormData): Parsed<UserCreate> {
 	};
 	const ids = vesselIds(form);
 	const password = text(form, 'password');
-	const errors: Errors = {};
 	const parsed = userCreate.safeParse({
 		...values,
 		vessel_ids: ids,
 		password: password === '' ? undefined : password
 	});
-	if (!parsed.success) Object.assign(errors, fieldErrors(parsed.error));
-	if (errors.role) errors.role = 'choose a role';
-	needsVessel(values.role, ids, errors);
-	if (!parsed.success || Object.keys(errors).length)
-		return { ok: false, values, vesselIds: ids, errors };
-	return { ok: true, data: parsed.data, values, vesselIds: ids };
+	return judged(parsed, values, ids);
 }
 
 export function userUpdateForm(form: FormData): Parsed<UserUpdate> {
 	const values: Values = { name: text(form, 'name'), role: text(form, 'role') };
 	const ids = vesselIds(form);
-	const errors: Errors = {};
-	const parsed = userUpdate.safeParse({ ...values, vessel_ids: ids });
-	if (!parsed.success) Object.assign(errors, fieldErrors(parsed.error));
-	if (errors.role) errors.role = 'choose a role';
-	needsVessel(values.role, ids, errors);
-	if (!parsed.success || Object.keys(errors).length)
-		return { ok: false, values, vesselIds: ids, errors };
-	return { ok: true, data: parsed.data, values, vesselIds: ids };
+	return judged(userUpdate.safeParse({ ...values, vessel_ids: ids }), values, ids);
 }

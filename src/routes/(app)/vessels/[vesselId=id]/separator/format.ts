@@ -1,22 +1,11 @@
 /** Times and outcomes as this page shows them (server render and browser alike). */
 import type { MarkState } from '$lib/components/marks';
+import { formatZoned } from '$lib/history/format';
 
-/** "2026-12-01 14:03" in the given IANA zone */
+/** "2026-12-01 14:03:07" in the given IANA zone */
 export function inZone(ms: number | string | null, timeZone: string): string {
 	if (ms === null) return '—';
-	const t = typeof ms === 'string' ? Date.parse(ms) : ms;
-	const parts = new Intl.DateTimeFormat('en-GB', {
-		timeZone,
-		year: 'numeric',
-		month: '2-digit',
-		day: '2-digit',
-		hour: '2-digit',
-		minute: '2-digit',
-		second: '2-digit',
-		hour12: false
-	}).formatToParts(t);
-	const p = (type: string) => parts.find((x) => x.type === type)?.value ?? '';
-	return `${p('year')}-${p('month')}-${p('day')} ${p('hour')}:${p('minute')}:${p('second')}`;
+	return formatZoned(typeof ms === 'string' ? Date.parse(ms) : ms, timeZone);
 }
 
 export type Outcome = 'pending' | 'done' | 'missed' | 'valve_stuck_open';
