@@ -18,6 +18,7 @@ type Ids = {
 	shaft: number;
 	alarm: number;
 	importId: number;
+	attachment: number;
 	user: string;
 	token: number;
 	mail: number;
@@ -36,6 +37,7 @@ interface RouteCase {
 
 const ADMIN: Role[] = ['admin'];
 const ONBOARD_ACTORS: Role[] = ['admin', 'fleet_manager', 'chief_engineer', 'technician'];
+const RECORD_WRITERS: Role[] = ['admin', 'chief_engineer', 'technician'];
 
 /** Bodies are deliberately invalid where the route changes things: an allowed caller gets 4xx from validation, never a change. */
 const CASES: RouteCase[] = [
@@ -94,6 +96,19 @@ const CASES: RouteCase[] = [
 	{ route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/preview', who: ['admin', 'chief_engineer'], scoped: true, body: { mapping: 'nonsense' } },
 	{ route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/commit', who: ['admin', 'chief_engineer'], scoped: true, body: { mapping: 'nonsense' } },
 	{ route: 'GET /api/shafts/[shaftId=id]/imports/[importId=id]/original', who: 'any', scoped: true },
+	{ route: 'GET /api/shafts/[shaftId=id]/records', who: 'any', scoped: true },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/seal-tests', who: 'any', scoped: true },
+	{ route: 'POST /api/shafts/[shaftId=id]/records/seal-tests', who: RECORD_WRITERS, scoped: true, body: {} },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/bearing-measurements', who: 'any', scoped: true },
+	{ route: 'POST /api/shafts/[shaftId=id]/records/bearing-measurements', who: RECORD_WRITERS, scoped: true, body: {} },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/wear', who: 'any', scoped: true },
+	{ route: 'POST /api/shafts/[shaftId=id]/records/wear', who: RECORD_WRITERS, scoped: true, body: { reading_mm: 'x' } },
+	{ route: 'PUT /api/shafts/[shaftId=id]/records/wear-limit', who: RECORD_WRITERS, scoped: true, body: { wear_limit_mm: -1 } },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/shrink-fits', who: 'any', scoped: true },
+	{ route: 'POST /api/shafts/[shaftId=id]/records/shrink-fits', who: RECORD_WRITERS, scoped: true, body: {} },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/attachments', who: 'any', scoped: true },
+	{ route: 'POST /api/shafts/[shaftId=id]/records/attachments', who: RECORD_WRITERS, scoped: true, body: {} },
+	{ route: 'GET /api/shafts/[shaftId=id]/records/attachments/[attachmentId=id]', who: 'any', scoped: true },
 	{ route: 'GET /api/compliance', who: 'any' },
 	{ route: 'GET /api/alarms', who: 'any' },
 	{ route: 'GET /api/alarms/[alarmId=id]', who: 'any', scoped: true },
@@ -125,6 +140,7 @@ function path(route: string, ids: Ids) {
 		.replace('[shaftId=id]', String(ids.shaft))
 		.replace('[alarmId=id]', String(ids.alarm))
 		.replace('[importId=id]', String(ids.importId))
+		.replace('[attachmentId=id]', String(ids.attachment))
 		.replace('[userId]', ids.user)
 		.replace('[tokenId=id]', String(ids.token))
 		.replace('[mailId=id]', String(ids.mail));
@@ -150,7 +166,18 @@ async function idsFor(vesselCode: string, shaftCode: string, admin: Client): Pro
 	const shaft = v.shafts.find((s) => s.code === shaftCode)!.id;
 	const alarms = (await (await admin.get(`/api/alarms?vessel=${v.id}`)).json()).alarms as { id: number; shaft_id: number }[];
 	const alarm = alarms.find((a) => a.shaft_id === shaft)!.id;
-	return { vessel: v.id, shaft, alarm, importId: await uploadTo(shaft, admin) };
+	return { vessel: v.id, shaft, alarm, importId: await uploadTo(shaft, admin), attachment: await attachTo(shaft, admin) };
+}
+
+/** a small PNG attached to the shaft's records */
+async function attachTo(shaft: number, admin: Client): Promise<number> {
+	const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
+	const res = await fetch(`${server.url}/api/shafts/${shaft}/records/attachments?filename=matrix.png`, {
+		method: 'POST',
+		body: png,
+		headers: { cookie: admin.cookie!, 'content-type': 'image/png' }
+	});
+	return (await res.json()).attachment.id as number;
 }
 
 /** a small logger file uploaded (not imported) for the shaft */

@@ -21,7 +21,7 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 async function snapshot(db: ReturnType<typeof createKysely>) {
 	const out: Record<string, unknown[]> = {};
-	for (const t of ['users', 'vessels', 'shafts', 'vessel_members', 'gateways', 'audit_log', 'purge_schedules']) {
+	for (const t of ['users', 'vessels', 'shafts', 'vessel_members', 'gateways', 'audit_log', 'purge_schedules', 'seal_tests', 'bearing_measurements', 'wear_readings', 'wear_limits', 'shrink_fit_plans']) {
 		out[t] = (await sql`select * from ${sql.table(t)} order by 1, 2`.execute(db)).rows;
 	}
 	return out;
@@ -58,6 +58,9 @@ describe('database', () => {
 		expect(Math.min(...diameters)).toBeLessThanOrEqual(160);
 		expect(Math.max(...diameters)).toBeGreaterThanOrEqual(590);
 		expect(new Set((first.shafts as { water: string }[]).map((s) => s.water))).toEqual(new Set(['sea', 'fresh']));
+		// every demo shaft has its commissioning records
+		expect(new Set((first.wear_readings as { shaft_id: number }[]).map((r) => r.shaft_id)).size).toBe(first.shafts.length);
+		expect(first.seal_tests).toHaveLength(first.shafts.length);
 		await seedDemo(db, DEMO_PASSWORD);
 		expect(await snapshot(db)).toEqual(first);
 		await db.destroy();

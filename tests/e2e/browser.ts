@@ -12,7 +12,11 @@ export const ARTIFACTS = resolve(import.meta.dirname, '../../test-results');
 export interface TestBrowser {
 	browser: Browser;
 	/** a fresh context (its own cookies) signed in as `email` */
-	signedIn(baseUrl: string, email: string, options?: { dark?: boolean }): Promise<{ context: BrowserContext; page: Page; errors: string[] }>;
+	signedIn(
+		baseUrl: string,
+		email: string,
+		options?: { dark?: boolean }
+	): Promise<{ context: BrowserContext; page: Page; errors: string[] }>;
 	close(): Promise<void>;
 }
 
@@ -48,7 +52,21 @@ export async function launchBrowser(): Promise<TestBrowser> {
 			await page.goto(`${baseUrl}/login`);
 			await page.getByLabel('E-mail').fill(email);
 			await page.getByLabel('Password').fill(DEMO_PASSWORD);
-			await Promise.all([page.waitForURL(`${baseUrl}/`), page.getByRole('button', { name: 'Sign in' }).click()]);
+			await page.getByRole('button', { name: 'Sign in' }).click();
+			// the URL is the answer to the sign-in; the fleet page's own loading is each test's business
+			try {
+				await page.waitForURL(`${baseUrl}/`, { waitUntil: 'commit', timeout: 45_000 });
+			} catch (err) {
+				const alerts = await page
+					.getByRole('alert')
+					.allTextContents()
+					.catch(() => []);
+				throw new Error(
+					`sign-in of ${email} did not reach the fleet page: still at ${page.url()}; alerts: ${alerts.join(' | ') || 'none'}; page errors: ${errors.join(' | ') || 'none'}`,
+					{ cause: err }
+				);
+			}
+			await page.waitForLoadState('domcontentloaded');
 			return { context, page, errors };
 		},
 		async close() {

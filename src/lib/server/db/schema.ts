@@ -12,6 +12,7 @@ import type { MailTables } from './tables/mail';
 import type { PurgeTables } from './tables/purge';
 import type { HistoryTables } from './tables/history';
 import type { NotifyTables } from './tables/notify';
+import type { RecordsTables } from './tables/records';
 
 /** epoch milliseconds */
 export type EpochMs = number;
@@ -103,7 +104,8 @@ export interface Database
 		MailTables,
 		PurgeTables,
 		HistoryTables,
-		NotifyTables {
+		NotifyTables,
+		RecordsTables {
 	users: UsersTable;
 	sessions: SessionsTable;
 	vessels: VesselsTable;

@@ -10,6 +10,7 @@ import { hashSecret } from '../auth/password';
 import * as users from '../users/repository';
 import { DEMO_USERS, DEMO_VESSELS, demoGatewayPassword, gatewayUsername } from './fleet';
 import { seedDemoPurgeSchedules } from '../purge/demo';
+import { seedDemoRecords } from '../records/demo';
 
 export async function seedDemo(db: Kysely<Database>, demoPassword: string): Promise<void> {
 	const vesselIds = new Map<string, number>();
@@ -79,6 +80,7 @@ export async function seedDemo(db: Kysely<Database>, demoPassword: string): Prom
 		});
 	}
 	await seedDemoPurgeSchedules(db);
+	await seedDemoRecords(db);
 }
 
 /** Creates the first administrator if ADMIN_EMAIL is set and no such user exists. */

@@ -1,0 +1,179 @@
+import { error, fail, type RequestEvent } from '@sveltejs/kit';
+import type { z } from 'zod';
+import type { Actions, PageServerLoad } from './$types';
+import { can } from '$lib/permissions';
+import { pagePermission, pageUser } from '$lib/server/auth/page-guard';
+import { actorOf, type Actor } from '$lib/server/audit';
+import { ApiError, fieldErrors } from '$lib/server/api/errors';
+import { context } from '$lib/server/context';
+import { getVessel } from '$lib/server/fleet/repository';
+import { shaftRecords } from '$lib/server/records/repository';
+import {
+	addAttachment,
+	addBearingMeasurement,
+	addSealTest,
+	addShrinkFit,
+	addWearReading,
+	setWearLimit,
+	type RecordShaft
+} from '$lib/server/records/service';
+import {
+	bearingMeasurementBody,
+	sealTestBody,
+	shrinkFitBody,
+	wearLimitBody,
+	wearReadingBody
+} from '$lib/schemas/records';
+import {
+	bearingFromForm,
+	formFields,
+	sealTestFromForm,
+	shrinkFitFromForm,
+	toFormErrors,
+	wearFromForm,
+	wearLimitFromForm
+} from '$lib/records/forms';
+import { MAX_ATTACHMENT_BYTES } from '$lib/records/kinds';
+
+/** The records of the shaft in ?shaft= (the vessel's first shaft without one). */
+export const load: PageServerLoad = async ({ params, locals, url }) => {
+	const user = pageUser(locals);
+	const ctx = context();
+	const vessel = await getVessel(ctx.db, Number(params.vesselId));
+	if (!vessel) error(404, 'Not found');
+	const wanted = Number(url.searchParams.get('shaft'));
+	const shaft = vessel.shafts.find((s) => s.id === wanted) ?? vessel.shafts[0];
+	return {
+		shaft: shaft ?? null,
+		records: shaft ? await shaftRecords(ctx.db, shaft.id) : null,
+		canWrite: can(user.role, 'records.write')
+	};
+};
+
+/** The shaft a form posts for: one of this vessel's (the vessel is in scope: hooks checked it). */
+async function formShaft(event: RequestEvent, form: FormData): Promise<RecordShaft> {
+	const shaft = await context()
+		.db.selectFrom('shafts')
+		.select(['id', 'vessel_id'])
+		.where('id', '=', Number(form.get('shaft_id')))
+		.where('vessel_id', '=', Number(event.params.vesselId))
+		.executeTakeFirst();
+	if (!shaft) error(404, 'Not found');
+	return shaft;
+}
+
+type Store<B> = (actor: Actor, shaft: RecordShaft, body: B) => Promise<unknown>;
+
+/**
+ * One records form: role, shaft, form → body (in SI) → schema → store. A
+ * refusal keeps what was typed (`values`) and says what is wrong beside each field.
+ */
+function recordAction<S extends z.ZodType>(
+	kind: string,
+	read: (
+		fields: ReturnType<typeof formFields>,
+		units: 'metric' | 'us'
+	) => { body: unknown; bad?: string },
+	schema: S,
+	store: Store<z.output<S>>
+) {
+	return async (event: RequestEvent) => {
+		const user = pagePermission(event.locals, 'records.write');
+		const form = await event.request.formData();
+		const shaft = await formShaft(event, form);
+		const fields = formFields(form);
+		const values = Object.fromEntries(
+			Object.entries(fields).filter(([, v]) => typeof v === 'string')
+		);
+		const { body, bad } = read(fields, user.units);
+		const parsed = schema.safeParse(body);
+		if (!parsed.success || bad) {
+			const errors = parsed.success ? {} : toFormErrors(fieldErrors(parsed.error));
+			if (bad) errors.readings ??= bad;
+			return fail(400, { kind, errors, values });
+		}
+		try {
+			await store(actorOf(user), shaft, parsed.data);
+		} catch (err) {
+			if (err instanceof ApiError)
+				return fail(400, { kind, errors: toFormErrors(err.fields ?? { _: err.message }), values });
+			throw err;
+		}
+		return { kind, saved: true };
+	};
+}
+
+export const actions: Actions = {
+	sealTest: recordAction(
+		'sealTest',
+		(f, units) => {
+			const { body, bad_lines } = sealTestFromForm(f, units);
+			return {
+				body,
+				bad: bad_lines.length ? `line ${bad_lines.join(', ')}: not “seconds, pressure”` : undefined
+			};
+		},
+		sealTestBody,
+		(actor, shaft, body) => addSealTest(context().db, actor, shaft, body)
+	),
+	bearing: recordAction(
+		'bearing',
+		(f, units) => ({ body: bearingFromForm(f, units) }),
+		bearingMeasurementBody,
+		(actor, shaft, body) => addBearingMeasurement(context().db, actor, shaft, body)
+	),
+	wear: recordAction(
+		'wear',
+		(f, units) => ({ body: wearFromForm(f, units) }),
+		wearReadingBody,
+		(actor, shaft, body) => addWearReading(context().db, actor, shaft, body)
+	),
+	wearLimit: recordAction(
+		'wearLimit',
+		(f, units) => ({ body: wearLimitFromForm(f, units) }),
+		wearLimitBody,
+		(actor, shaft, body) => setWearLimit(context().db, actor, shaft, body)
+	),
+	shrinkFit: recordAction(
+		'shrinkFit',
+		(f, units) => ({ body: shrinkFitFromForm(f, units) }),
+		shrinkFitBody,
+		(actor, shaft, body) => addShrinkFit(context().db, actor, shaft, body)
+	),
+	attachment: async (event) => {
+		const user = pagePermission(event.locals, 'records.write');
+		const length = Number(event.request.headers.get('content-length') ?? 0);
+		if (length > MAX_ATTACHMENT_BYTES + 64 * 1024)
+			return fail(413, {
+				kind: 'attachment',
+				errors: { file: `the file is larger than ${MAX_ATTACHMENT_BYTES / 1_048_576} MB` },
+				values: {}
+			});
+		const form = await event.request.formData();
+		const shaft = await formShaft(event, form);
+		const file = form.get('file');
+		const notes = String(form.get('notes') ?? '');
+		if (!(file instanceof File) || file.size === 0)
+			return fail(400, {
+				kind: 'attachment',
+				errors: { file: 'choose a photo or PDF' },
+				values: { notes }
+			});
+		try {
+			await addAttachment(context().db, actorOf(user), shaft, {
+				name: file.name,
+				bytes: new Uint8Array(await file.arrayBuffer()),
+				notes
+			});
+		} catch (err) {
+			if (err instanceof ApiError)
+				return fail(err.status === 413 ? 413 : 400, {
+					kind: 'attachment',
+					errors: { file: err.message },
+					values: { notes }
+				});
+			throw err;
+		}
+		return { kind: 'attachment', saved: true };
+	}
+};
