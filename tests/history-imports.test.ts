@@ -12,6 +12,7 @@ import { samplesCsv } from '$lib/server/history/export';
 import { coverageOf } from '$lib/server/history/compliance';
 import { shaftHistory, type ShaftHistory } from '$lib/server/history/shaft-context';
 import { MAX_UPLOAD_BYTES } from '$lib/history/import/sniff';
+import { recoverInterruptedImports } from '$lib/server/history/imports/service';
 import type { ImportMapping } from '$lib/history/import/mapping';
 import * as uploadsApi from '../src/routes/api/shafts/[shaftId=id]/imports/+server';
 import * as importApi from '../src/routes/api/shafts/[shaftId=id]/imports/[importId=id]/+server';
@@ -435,5 +436,36 @@ describe('CSV export', () => {
 		);
 		expect(res.status).toBe(400);
 		expect((await res.json()).error.fields).toHaveProperty('from');
+	});
+});
+
+describe('an import interrupted by a stop', () => {
+	it('is marked failed at the next start, and then imports once', async () => {
+		const csv = 'time,flow\n2026-05-01T00:00:00Z,80\n2026-05-01T00:00:01Z,81\n';
+		const body = await uploaded(chief, lark, 'interrupted.csv', csv);
+		// the state a crash mid-commit leaves behind
+		await app.ctx.db
+			.updateTable('logger_imports')
+			.set({ status: 'importing' })
+			.where('id', '=', body.import.id)
+			.execute();
+		expect((await commit(chief, lark, body.import.id, body.report.mapping)).status).toBe(409);
+
+		expect(await recoverInterruptedImports(app.ctx.db)).toBe(1);
+		const row = await app.ctx.db
+			.selectFrom('logger_imports')
+			.select(['status', 'error'])
+			.where('id', '=', body.import.id)
+			.executeTakeFirstOrThrow();
+		expect(row.status).toBe('failed');
+		expect(row.error).toMatch(/interrupted by a server restart/);
+		expect(await recoverInterruptedImports(app.ctx.db)).toBe(0);
+
+		const res = await commit(chief, lark, body.import.id, body.report.mapping);
+		expect(res.status).toBe(200);
+		expect((await res.json()).import.rows_imported).toBe(2);
+		expect(
+			await stored(lark, Date.parse('2026-05-01T00:00:00Z'), Date.parse('2026-05-01T00:00:02Z'))
+		).toHaveLength(2);
 	});
 });

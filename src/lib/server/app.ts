@@ -11,6 +11,7 @@ import { migrateToLatest } from './db/migrate';
 import { createLucia } from './auth/lucia';
 import { createSignInThrottles } from './auth/throttle';
 import { seedAdmin, seedDemo } from './demo/seed';
+import { recoverInterruptedImports } from './history/imports/service';
 import { setContext, type AppContext } from './context';
 import { startParts } from './parts';
 import type { Services, Stoppable } from './services';
@@ -32,7 +33,13 @@ export async function startApp(config: Config, options: StartOptions = {}): Prom
 		const applied = await migrateToLatest(db, options.migrations ?? bundledMigrations());
 		if (applied.length) log(`migrated: ${applied.join(', ')}`);
 		if (config.DEMO) await seedDemo(db, config.DEMO_PASSWORD);
-		if ((await seedAdmin(db, config)) === 'created') log(`created administrator ${config.ADMIN_EMAIL}`);
+		if ((await seedAdmin(db, config)) === 'created')
+			log(`created administrator ${config.ADMIN_EMAIL}`);
+		const interrupted = await recoverInterruptedImports(db);
+		if (interrupted)
+			log(
+				`${interrupted} logger import(s) interrupted by the last stop are marked failed, to import again`
+			);
 
 		const services: Services = {};
 		const ctx: AppContext = {

@@ -317,6 +317,24 @@ export async function commitImport(
 	}
 }
 
+/**
+ * At start-up: an import the server was carrying out when it stopped is
+ * marked failed, so it can be imported again — rows it had already stored are
+ * then skipped as duplicates, so nothing is stored twice.
+ */
+export async function recoverInterruptedImports(db: AppContext['db']): Promise<number> {
+	const res = await db
+		.updateTable('logger_imports')
+		.set({
+			status: 'failed',
+			error:
+				'interrupted by a server restart: import it again (rows already stored are skipped as duplicates)'
+		})
+		.where('status', '=', 'importing')
+		.executeTakeFirst();
+	return Number(res.numUpdatedRows);
+}
+
 /** Discards an upload that was never imported (an imported file stays with its record). */
 export async function discardImport(ctx: AppContext, actor: Actor, view: ImportView) {
 	const res = await ctx.db
