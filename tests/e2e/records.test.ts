@@ -30,7 +30,7 @@ describe('records', () => {
 		// the demo's yearly readings: a chart, a rate and a projected date
 		await expect.poll(() => page.getByTestId('wear-chart').count()).toBe(1);
 		expect(await page.getByTestId('wear-projection').textContent()).toMatch(/\d{4}-\d\d-\d\d/);
-		expect(await page.getByTestId('records-caution').textContent()).toMatch(/liquid nitrogen/);
+		expect(await page.getByTestId('records-caution').textContent()).toMatch(/liquid\s+nitrogen/);
 		const wearRows = page.getByTestId('wear-panel').locator('tbody tr');
 		const before = await wearRows.count();
 		expect(before).toBeGreaterThan(2);
