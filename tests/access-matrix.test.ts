@@ -64,19 +64,54 @@ const CASES: RouteCase[] = [
 	{ route: 'GET /api/vessels', who: 'any' },
 	{ route: 'POST /api/vessels', who: ADMIN, body: {} },
 	{ route: 'GET /api/vessels/[vesselId=id]', who: 'any', scoped: true },
-	{ route: 'PATCH /api/vessels/[vesselId=id]', who: ADMIN, scoped: true, body: { time_zone: 'Nowhere/Land' } },
+	{
+		route: 'PATCH /api/vessels/[vesselId=id]',
+		who: ADMIN,
+		scoped: true,
+		body: { time_zone: 'Nowhere/Land' }
+	},
 	{ route: 'POST /api/vessels/[vesselId=id]/shafts', who: ADMIN, scoped: true, body: {} },
 	{ route: 'GET /api/vessels/[vesselId=id]/gateway', who: ADMIN, scoped: true },
 	{ route: 'POST /api/vessels/[vesselId=id]/gateway', who: ADMIN, scoped: true },
-	{ route: 'PUT /api/vessels/[vesselId=id]/operating-mode', who: ['admin', 'chief_engineer'], scoped: true, body: {} },
+	{
+		route: 'PUT /api/vessels/[vesselId=id]/operating-mode',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/vessels/[vesselId=id]/alarm-settings', who: 'any', scoped: true },
-	{ route: 'PUT /api/vessels/[vesselId=id]/alarm-settings', who: ['admin', 'chief_engineer'], scoped: true, body: { separator_dp_max_bar: -5 } },
-	{ route: 'PUT /api/vessels/[vesselId=id]/out-of-service', who: ['admin', 'chief_engineer'], scoped: true, body: {} },
+	{
+		route: 'PUT /api/vessels/[vesselId=id]/alarm-settings',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: { separator_dp_max_bar: -5 }
+	},
+	{
+		route: 'PUT /api/vessels/[vesselId=id]/out-of-service',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/vessels/[vesselId=id]/notification-settings', who: 'any', scoped: true },
-	{ route: 'PUT /api/vessels/[vesselId=id]/notification-settings', who: ['admin', 'fleet_manager', 'chief_engineer'], scoped: true, body: { escalation_after_s: -1 } },
+	{
+		route: 'PUT /api/vessels/[vesselId=id]/notification-settings',
+		who: ['admin', 'fleet_manager', 'chief_engineer'],
+		scoped: true,
+		body: { escalation_after_s: -1 }
+	},
 	{ route: 'GET /api/vessels/[vesselId=id]/purge-schedule', who: 'any', scoped: true },
-	{ route: 'PUT /api/vessels/[vesselId=id]/purge-schedule', who: ['admin', 'chief_engineer', 'technician'], scoped: true, body: {} },
-	{ route: 'POST /api/vessels/[vesselId=id]/purge', who: ['admin', 'chief_engineer', 'technician'], scoped: true, body: { duration_s: -1 } },
+	{
+		route: 'PUT /api/vessels/[vesselId=id]/purge-schedule',
+		who: ['admin', 'chief_engineer', 'technician'],
+		scoped: true,
+		body: {}
+	},
+	{
+		route: 'POST /api/vessels/[vesselId=id]/purge',
+		who: ['admin', 'chief_engineer', 'technician'],
+		scoped: true,
+		body: { duration_s: -1 }
+	},
 	{ route: 'GET /api/vessels/[vesselId=id]/purges', who: 'any', scoped: true },
 	{ route: 'GET /api/vessels/[vesselId=id]/live', who: 'any', scoped: true, stream: true },
 	{ route: 'GET /api/live', who: 'any', stream: true },
@@ -84,37 +119,125 @@ const CASES: RouteCase[] = [
 	{ route: 'PATCH /api/shafts/[shaftId=id]', who: ADMIN, scoped: true, body: { diameter_mm: -1 } },
 	{ route: 'GET /api/shafts/[shaftId=id]/status', who: 'any', scoped: true },
 	{ route: 'GET /api/shafts/[shaftId=id]/alarm-settings', who: 'any', scoped: true },
-	{ route: 'PUT /api/shafts/[shaftId=id]/alarm-settings', who: ['admin', 'chief_engineer'], scoped: true, body: { margin_warning: -1 } },
-	{ route: 'PUT /api/shafts/[shaftId=id]/out-of-service', who: ['admin', 'chief_engineer'], scoped: true, body: {} },
+	{
+		route: 'PUT /api/shafts/[shaftId=id]/alarm-settings',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: { margin_warning: -1 }
+	},
+	{
+		route: 'PUT /api/shafts/[shaftId=id]/out-of-service',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/samples', who: 'any', scoped: true },
 	{ route: 'GET /api/shafts/[shaftId=id]/compliance', who: 'any', scoped: true },
 	{ route: 'GET /api/shafts/[shaftId=id]/export.csv', who: 'any', scoped: true },
 	{ route: 'GET /api/shafts/[shaftId=id]/imports', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/imports', who: ['admin', 'chief_engineer'], scoped: true, body: {} },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/imports',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/imports/[importId=id]', who: 'any', scoped: true },
-	{ route: 'DELETE /api/shafts/[shaftId=id]/imports/[importId=id]', who: ['admin', 'chief_engineer'], scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/preview', who: ['admin', 'chief_engineer'], scoped: true, body: { mapping: 'nonsense' } },
-	{ route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/commit', who: ['admin', 'chief_engineer'], scoped: true, body: { mapping: 'nonsense' } },
-	{ route: 'GET /api/shafts/[shaftId=id]/imports/[importId=id]/original', who: 'any', scoped: true },
+	{
+		route: 'DELETE /api/shafts/[shaftId=id]/imports/[importId=id]',
+		who: ['admin', 'chief_engineer'],
+		scoped: true
+	},
+	{
+		route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/preview',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: { mapping: 'nonsense' }
+	},
+	{
+		route: 'POST /api/shafts/[shaftId=id]/imports/[importId=id]/commit',
+		who: ['admin', 'chief_engineer'],
+		scoped: true,
+		body: { mapping: 'nonsense' }
+	},
+	{
+		route: 'GET /api/shafts/[shaftId=id]/imports/[importId=id]/original',
+		who: 'any',
+		scoped: true
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/records', who: 'any', scoped: true },
 	{ route: 'GET /api/shafts/[shaftId=id]/records/seal-tests', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/records/seal-tests', who: RECORD_WRITERS, scoped: true, body: {} },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/seal-tests',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/records/bearing-measurements', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/records/bearing-measurements', who: RECORD_WRITERS, scoped: true, body: {} },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/bearing-measurements',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/records/wear', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/records/wear', who: RECORD_WRITERS, scoped: true, body: { reading_mm: 'x' } },
-	{ route: 'PUT /api/shafts/[shaftId=id]/records/wear-limit', who: RECORD_WRITERS, scoped: true, body: { wear_limit_mm: -1 } },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/wear',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: { reading_mm: 'x' }
+	},
+	{
+		route: 'PUT /api/shafts/[shaftId=id]/records/wear-limit',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: { wear_limit_mm: -1 }
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/records/shrink-fits', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/records/shrink-fits', who: RECORD_WRITERS, scoped: true, body: {} },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/shrink-fits',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/shafts/[shaftId=id]/records/attachments', who: 'any', scoped: true },
-	{ route: 'POST /api/shafts/[shaftId=id]/records/attachments', who: RECORD_WRITERS, scoped: true, body: {} },
-	{ route: 'GET /api/shafts/[shaftId=id]/records/attachments/[attachmentId=id]', who: 'any', scoped: true },
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/attachments',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: {}
+	},
+	{
+		route: 'GET /api/shafts/[shaftId=id]/records/attachments/[attachmentId=id]',
+		who: 'any',
+		scoped: true
+	},
+	{
+		route: 'POST /api/shafts/[shaftId=id]/records/[kind=recordkind]/[recordId=id]/void',
+		who: RECORD_WRITERS,
+		scoped: true,
+		body: {}
+	},
 	{ route: 'GET /api/compliance', who: 'any' },
 	{ route: 'GET /api/alarms', who: 'any' },
 	{ route: 'GET /api/alarms/[alarmId=id]', who: 'any', scoped: true },
-	{ route: 'POST /api/alarms/[alarmId=id]/ack', who: ONBOARD_ACTORS, scoped: true, body: { comment: 42 } },
-	{ route: 'POST /api/alarms/[alarmId=id]/shelve', who: ONBOARD_ACTORS, scoped: true, body: { duration_s: 1 } },
-	{ route: 'POST /api/alarms/[alarmId=id]/unshelve', who: ONBOARD_ACTORS, scoped: true, body: { comment: 42 } },
+	{
+		route: 'POST /api/alarms/[alarmId=id]/ack',
+		who: ONBOARD_ACTORS,
+		scoped: true,
+		body: { comment: 42 }
+	},
+	{
+		route: 'POST /api/alarms/[alarmId=id]/shelve',
+		who: ONBOARD_ACTORS,
+		scoped: true,
+		body: { duration_s: 1 }
+	},
+	{
+		route: 'POST /api/alarms/[alarmId=id]/unshelve',
+		who: ONBOARD_ACTORS,
+		scoped: true,
+		body: { comment: 42 }
+	},
 	// last: ends the caller's session
 	{ route: 'POST /api/auth/logout', who: 'any' }
 ];
@@ -141,6 +264,8 @@ function path(route: string, ids: Ids) {
 		.replace('[alarmId=id]', String(ids.alarm))
 		.replace('[importId=id]', String(ids.importId))
 		.replace('[attachmentId=id]', String(ids.attachment))
+		.replace('[kind=recordkind]', 'attachments')
+		.replace('[recordId=id]', String(ids.attachment))
 		.replace('[userId]', ids.user)
 		.replace('[tokenId=id]', String(ids.token))
 		.replace('[mailId=id]', String(ids.mail));
@@ -151,7 +276,10 @@ async function call(c: Client | null, kase: RouteCase, ids: Ids): Promise<number
 	const url = path(kase.route, ids);
 	if (kase.stream) {
 		const abort = new AbortController();
-		const res = await fetch(server.url + url, { headers: c?.cookie ? { cookie: c.cookie } : {}, signal: abort.signal });
+		const res = await fetch(server.url + url, {
+			headers: c?.cookie ? { cookie: c.cookie } : {},
+			signal: abort.signal
+		});
 		abort.abort();
 		return res.status;
 	}
@@ -160,30 +288,54 @@ async function call(c: Client | null, kase: RouteCase, ids: Ids): Promise<number
 	return res.status;
 }
 
-async function idsFor(vesselCode: string, shaftCode: string, admin: Client): Promise<Omit<Ids, 'user' | 'token' | 'mail'>> {
-	const vessels = (await (await admin.get('/api/vessels')).json()).vessels as { id: number; code: string; shafts: { id: number; code: string }[] }[];
+async function idsFor(
+	vesselCode: string,
+	shaftCode: string,
+	admin: Client
+): Promise<Omit<Ids, 'user' | 'token' | 'mail'>> {
+	const vessels = (await (await admin.get('/api/vessels')).json()).vessels as {
+		id: number;
+		code: string;
+		shafts: { id: number; code: string }[];
+	}[];
 	const v = vessels.find((x) => x.code === vesselCode)!;
 	const shaft = v.shafts.find((s) => s.code === shaftCode)!.id;
-	const alarms = (await (await admin.get(`/api/alarms?vessel=${v.id}`)).json()).alarms as { id: number; shaft_id: number }[];
+	const alarms = (await (await admin.get(`/api/alarms?vessel=${v.id}`)).json()).alarms as {
+		id: number;
+		shaft_id: number;
+	}[];
 	const alarm = alarms.find((a) => a.shaft_id === shaft)!.id;
-	return { vessel: v.id, shaft, alarm, importId: await uploadTo(shaft, admin), attachment: await attachTo(shaft, admin) };
+	return {
+		vessel: v.id,
+		shaft,
+		alarm,
+		importId: await uploadTo(shaft, admin),
+		attachment: await attachTo(shaft, admin)
+	};
 }
 
 /** a small PNG attached to the shaft's records */
 async function attachTo(shaft: number, admin: Client): Promise<number> {
-	const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
-	const res = await fetch(`${server.url}/api/shafts/${shaft}/records/attachments?filename=matrix.png`, {
-		method: 'POST',
-		body: png,
-		headers: { cookie: admin.cookie!, 'content-type': 'image/png' }
-	});
+	const png = new Uint8Array([
+		0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52
+	]);
+	const res = await fetch(
+		`${server.url}/api/shafts/${shaft}/records/attachments?filename=matrix.png`,
+		{
+			method: 'POST',
+			body: png,
+			headers: { cookie: admin.cookie!, 'content-type': 'image/png' }
+		}
+	);
 	return (await res.json()).attachment.id as number;
 }
 
 /** a small logger file uploaded (not imported) for the shaft */
 async function uploadTo(shaft: number, admin: Client): Promise<number> {
 	const csv = 'time,flow\n2026-11-30T10:00:00Z,80\n';
-	const up = await admin.request('POST', `/api/shafts/${shaft}/imports?filename=matrix.csv`, csv, { 'content-type': 'text/csv' });
+	const up = await admin.request('POST', `/api/shafts/${shaft}/imports?filename=matrix.csv`, csv, {
+		'content-type': 'text/csv'
+	});
 	return (await up.json()).import.id as number;
 }
 
@@ -192,16 +344,27 @@ beforeAll(async () => {
 	for (const [role, email] of ROLES) clients.set(role, await signIn(server.url, email));
 	const admin = clients.get('admin')!;
 	// an open low-flow alarm on each vessel used below
-	for (const [vessel, shaft] of [['corrin-bay', 'port'], ['lakeline-wren', 'port']]) {
+	for (const [vessel, shaft] of [
+		['corrin-bay', 'port'],
+		['lakeline-wren', 'port']
+	]) {
 		const gw = await connectGateway(server.mqttPort, vessel);
 		await publishSeries(gw, vessel, shaft, Date.now() - 60_000, steady(0, 20, { flow_lpm: 1 }));
 		gw.end();
 	}
 	await new Promise((r) => setTimeout(r, 1500));
-	const extra = await (await admin.post('/api/users', { email: 'matrix@demo.test', name: 'Matrix', role: 'shore_office' })).json();
+	const extra = await (
+		await admin.post('/api/users', {
+			email: 'matrix@demo.test',
+			name: 'Matrix',
+			role: 'shore_office'
+		})
+	).json();
 	// the invitation just sent is in the local sink
 	await new Promise((r) => setTimeout(r, 1000));
-	const { messages } = (await (await admin.get('/api/admin/mail/sink')).json()) as { messages: { id: number }[] };
+	const { messages } = (await (await admin.get('/api/admin/mail/sink')).json()) as {
+		messages: { id: number }[];
+	};
 	const mailId = messages[0].id;
 	const a = await idsFor('corrin-bay', 'port', admin);
 	const b = await idsFor('lakeline-wren', 'port', admin);
@@ -220,7 +383,10 @@ describe('completeness', () => {
 				if (statSync(p).isDirectory()) walk(p);
 				else if (name === '+server.ts') {
 					const route = '/' + relative(root, dir).split('\\').join('/');
-					for (const m of readFileSync(p, 'utf8').matchAll(/export const (GET|POST|PUT|PATCH|DELETE)\b/g)) found.push(`${m[1]} ${route}`);
+					for (const m of readFileSync(p, 'utf8').matchAll(
+						/export const (GET|POST|PUT|PATCH|DELETE)\b/g
+					))
+						found.push(`${m[1]} ${route}`);
 				}
 			}
 		};
@@ -235,11 +401,16 @@ describe.each(CASES)('$route', (kase) => {
 		const results: Record<string, number> = {};
 		const expected: Record<string, string> = {};
 		for (const [role] of ROLES) {
-			const c = kase.route === 'POST /api/auth/logout' ? await signIn(server.url, ROLES.find((r) => r[0] === role)![1]) : clients.get(role)!;
+			const c =
+				kase.route === 'POST /api/auth/logout'
+					? await signIn(server.url, ROLES.find((r) => r[0] === role)![1])
+					: clients.get(role)!;
 			const ids = { ...inScope };
 			const out = { ...outOfScope };
 			if (kase.route.includes('[tokenId=id]')) {
-				ids.token = out.token = (await (await c.post('/api/me/tokens', { name: 'matrix' })).json()).id;
+				ids.token = out.token = (
+					await (await c.post('/api/me/tokens', { name: 'matrix' })).json()
+				).id;
 			}
 			if (kase.route === 'DELETE /api/shafts/[shaftId=id]/imports/[importId=id]') {
 				// an allowed delete really deletes: each caller gets uploads of its own
@@ -257,7 +428,10 @@ describe.each(CASES)('$route', (kase) => {
 		results['signed out'] = await call(null, kase, inScope);
 		expected['signed out'] = kase.who === 'public' ? 'allowed' : '401';
 		const verdict = Object.fromEntries(
-			Object.entries(results).map(([k, status]) => [k, [401, 403, 404].includes(status) ? String(status) : 'allowed'])
+			Object.entries(results).map(([k, status]) => [
+				k,
+				[401, 403, 404].includes(status) ? String(status) : 'allowed'
+			])
 		);
 		expect(verdict).toEqual(expected);
 	});
@@ -268,6 +442,8 @@ describe('nested ids', () => {
 		const admin = clients.get('admin')!;
 		const res = await admin.get(`/api/shafts/${inScope.shaft}/imports/${outOfScope.importId}`);
 		expect(res.status).toBe(404);
-		expect((await admin.get(`/api/shafts/${outOfScope.shaft}/imports/${outOfScope.importId}`)).status).toBe(200);
+		expect(
+			(await admin.get(`/api/shafts/${outOfScope.shaft}/imports/${outOfScope.importId}`)).status
+		).toBe(200);
 	});
 });

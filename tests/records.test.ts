@@ -494,6 +494,55 @@ describe('wear-down', () => {
 		expect(fromAll.trend.rate_mm_per_year).toBeCloseTo(0.31, 9);
 		expect(auditRows('records.wear_reading.add', shaft)).toHaveLength(4);
 	});
+
+	it('a voided reading stays listed but no longer counts, not even as the baseline', async () => {
+		const shaft = shaftOf('corrin-bay/wear-trial');
+		const path = records(shaft, '/wear');
+		// a mistaken reading dated before the installation becomes the baseline and spoils the trend…
+		const wrong = await tech.post(path, { measured_at: '2020-01-01T00:00:00Z', reading_mm: 5 });
+		expect(wrong.status).toBe(201);
+		const spoiled = await wrong.json();
+		expect(spoiled.trend.baseline.reading_mm).toBe(5);
+		const wrongId = spoiled.readings[0].id as number;
+
+		// …until it is voided, with a reason
+		const voidPath = records(shaft, `/wear/${wrongId}/void`);
+		const bare = await tech.post(voidPath, {});
+		expect(bare.status).toBe(422);
+		expect(Object.keys((await bare.json()).error.fields)).toEqual(['reason']);
+		expect((await shore.post(voidPath, { reason: 'wrong year' })).status).toBe(403);
+		const ok = await tech.post(voidPath, { reason: 'typed the year wrong; see the 2021 reading' });
+		expect(ok.status).toBe(200);
+		expect((await tech.post(voidPath, { reason: 'again' })).status).toBe(409);
+
+		const wear = await (await shore.get(path)).json();
+		expect(wear.readings).toHaveLength(5);
+		expect(wear.readings[0]).toMatchObject({
+			id: wrongId,
+			wear_mm: null,
+			voided: { by: 'tech@demo.test', reason: 'typed the year wrong; see the 2021 reading' }
+		});
+		// the same trend as before the mistake (the hand-worked example above)
+		expect(wear.trend.baseline).toMatchObject({
+			measured_at: Date.UTC(2021, 0, 1),
+			reading_mm: 0.8
+		});
+		expect(wear.trend.rate_mm_per_year).toBeCloseTo(0.31, 9);
+		expect(wear.readings[1].wear_mm).toBe(0);
+		expect(auditRows('records.void', shaft).map((a) => JSON.parse(a.details))).toEqual([
+			{ kind: 'wear', record_id: wrongId, reason: 'typed the year wrong; see the 2021 reading' }
+		]);
+
+		// a record is voided only under its own shaft, and only a kind the API knows
+		const other = shaftOf('corrin-bay/stbd');
+		expect(
+			(await tech.post(records(other, `/wear/${wrongId}/void`), { reason: 'not here' })).status
+		).toBe(404);
+		expect(
+			(await tech.post(records(shaft, `/logbook/${wrongId}/void`), { reason: 'no such kind' }))
+				.status
+		).toBe(404);
+	});
 });
 
 describe('shrink-fit plans', () => {

@@ -4,7 +4,13 @@
  */
 import { mkdirSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import {
+	chromium,
+	type Browser,
+	type BrowserContext,
+	type Page,
+	type Request
+} from 'playwright-core';
 import { DEMO_PASSWORD } from '../helpers/http';
 
 export const ARTIFACTS = resolve(import.meta.dirname, '../../test-results');
@@ -49,22 +55,35 @@ export async function launchBrowser(): Promise<TestBrowser> {
 			page.on('console', (m) => {
 				if (m.type() === 'error') errors.push(m.text());
 			});
-			await page.goto(`${baseUrl}/login`);
-			await page.getByLabel('E-mail').fill(email);
-			await page.getByLabel('Password').fill(DEMO_PASSWORD);
-			await page.getByRole('button', { name: 'Sign in' }).click();
-			// the URL is the answer to the sign-in; the fleet page's own loading is each test's business
-			try {
-				await page.waitForURL(`${baseUrl}/`, { waitUntil: 'commit', timeout: 45_000 });
-			} catch (err) {
-				const alerts = await page
-					.getByRole('alert')
-					.allTextContents()
-					.catch(() => []);
-				throw new Error(
-					`sign-in of ${email} did not reach the fleet page: still at ${page.url()}; alerts: ${alerts.join(' | ') || 'none'}; page errors: ${errors.join(' | ') || 'none'}`,
-					{ cause: err }
-				);
+			// what the page is still waiting for, should the sign-in stall
+			const pending = new Map<Request, string>();
+			const failed: string[] = []; // aborted by a navigation, most of them: only for the diagnosis
+			page.on('request', (r) => pending.set(r, `${r.method()} ${new URL(r.url()).pathname}`));
+			page.on('requestfinished', (r) => pending.delete(r));
+			page.on('requestfailed', (r) => {
+				failed.push(`${pending.get(r)} (${r.failure()?.errorText})`);
+				pending.delete(r);
+			});
+			for (let attempt = 1; ; attempt++) {
+				await page.goto(`${baseUrl}/login`);
+				await page.getByLabel('E-mail').fill(email);
+				await page.getByLabel('Password').fill(DEMO_PASSWORD);
+				await page.getByRole('button', { name: 'Sign in' }).click();
+				// the URL is the answer to the sign-in; the fleet page's own loading is each test's business
+				try {
+					await page.waitForURL(`${baseUrl}/`, { waitUntil: 'commit', timeout: 25_000 });
+					break;
+				} catch (err) {
+					const why = await stall(page, baseUrl, errors, [...pending.values()], failed);
+					// a stalled sign-in is retried once, loudly: the log keeps what it was waiting for
+					if (attempt === 1) {
+						console.warn(`[e2e] sign-in of ${email} stalled, trying once more: ${why}`);
+						continue;
+					}
+					throw new Error(`sign-in of ${email} did not reach the fleet page: ${why}`, {
+						cause: err
+					});
+				}
 			}
 			await page.waitForLoadState('domcontentloaded');
 			return { context, page, errors };
@@ -73,4 +92,30 @@ export async function launchBrowser(): Promise<TestBrowser> {
 			await browser.close();
 		}
 	};
+}
+
+/** Where a sign-in stuck: the page's refusals, its unanswered requests, and whether the server answers at all. */
+async function stall(
+	page: Page,
+	baseUrl: string,
+	errors: string[],
+	pending: string[],
+	failed: string[]
+): Promise<string> {
+	const texts = (selector: string) =>
+		page
+			.locator(selector)
+			.allTextContents()
+			.catch(() => [] as string[]);
+	const [alerts, fields] = [await texts('[role=alert]'), await texts('.field-error')];
+	const started = Date.now();
+	const health = await fetch(`${baseUrl}/api/health`, { signal: AbortSignal.timeout(10_000) })
+		.then((r) => `${r.status} in ${Date.now() - started} ms`)
+		.catch((e: Error) => `no answer in ${Date.now() - started} ms (${e.message})`);
+	return (
+		`still at ${page.url()}; alerts: ${alerts.join(' | ') || 'none'}; ` +
+		`field errors: ${fields.join(' | ') || 'none'}; unanswered requests: ${pending.join(', ') || 'none'}; ` +
+		`failed requests: ${failed.join(', ') || 'none'}; ` +
+		`page errors: ${errors.join(' | ') || 'none'}; /api/health: ${health}`
+	);
 }

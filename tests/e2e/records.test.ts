@@ -48,6 +48,15 @@ describe('records', () => {
 		await expect.poll(() => wear.locator('.field-error').count()).toBeGreaterThan(0);
 		expect(await wearRows.count()).toBe(before + 1);
 
+		// the new reading was a slip: voided with a reason, it stays listed, struck through
+		const newest = wearRows.first();
+		await newest.getByText('Void…').click();
+		await newest.getByLabel('Why is this record void?').fill('gauge misread; re-measured next day');
+		await newest.getByRole('button', { name: 'Void' }).click();
+		await expect.poll(() => wearRows.first().getByTestId('voided').count()).toBe(1);
+		expect(await wearRows.first().textContent()).toContain('gauge misread');
+		expect(await wearRows.count()).toBe(before + 1);
+
 		// the seal test is judged as it is typed, by the same function as the server's
 		const seal = page.getByTestId('form-sealTest');
 		await seal.getByLabel(/^Readings/).fill('0, 3.00\n60, 3.00\n120, 2.97\n180, 2.95');
@@ -99,6 +108,15 @@ describe('records', () => {
 			.poll(() => page.getByTestId('shrink-preview').textContent())
 			.toMatch(/Heat the liner/);
 		expect(await page.getByRole('button', { name: 'Save plan' }).count()).toBe(0);
+
+		// the printable report carries the installation's records in force
+		await page.goto(`${server.url}/vessels/${CORRIN_BAY}/report`);
+		const summary = page.getByTestId('report-records');
+		await expect.poll(() => summary.locator('tbody tr').count()).toBe(2);
+		const port = (await summary.locator('tbody tr').first().textContent()) ?? '';
+		expect(port).toMatch(/Port shaft/);
+		expect(port).toMatch(/\d{4}-\d\d-\d\d\s*Pass/);
+		expect(port).toMatch(/\/ year/);
 		expect(errors).toEqual([]);
 		await context.close();
 	});

@@ -25,6 +25,16 @@ export const WEAR_METHOD_LABELS: Record<WearMethod, string> = {
 	other: 'Other'
 };
 
+/** The record collections of a shaft, as the API names them (…/records/{kind}). */
+export const RECORD_KINDS = [
+	'seal-tests',
+	'bearing-measurements',
+	'wear',
+	'shrink-fits',
+	'attachments'
+] as const;
+export type RecordKind = (typeof RECORD_KINDS)[number];
+
 /** Photos and documents beside the records: what the bytes must be. */
 export const ATTACHMENT_TYPES = {
 	'image/jpeg': { ext: ['.jpg', '.jpeg'], magic: [0xff, 0xd8, 0xff] },

@@ -105,3 +105,7 @@ export const shrinkFitBody = z
 		path: ['alpha_per_k']
 	});
 export type ShrinkFitBody = z.output<typeof shrinkFitBody>;
+
+export const voidBody = z.object({
+	reason: z.string().trim().min(3, 'say why the record is void').max(500)
+});

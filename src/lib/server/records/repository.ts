@@ -17,12 +17,20 @@ import type {
 	ShrinkFitPlansTable
 } from '../db/tables/records';
 
+export interface Voided {
+	at: number;
+	by: string;
+	reason: string;
+}
+
 interface RecordView {
 	id: number;
 	shaft_id: number;
 	recorded_by: string;
 	notes: string;
 	created_at: number;
+	/** a voided record is kept, and shown, but counts no more */
+	voided: Voided | null;
 }
 
 export interface SealTestView extends RecordView {
@@ -50,6 +58,8 @@ export interface WearReadingView extends RecordView {
 	measured_at: number;
 	reading_mm: number;
 	method: WearMethod;
+	/** reading − baseline; null for a voided reading */
+	wear_mm: number | null;
 }
 
 export interface WearView {
@@ -94,12 +104,19 @@ const base = (r: {
 	recorded_by_email: string;
 	notes: string;
 	created_at: number;
+	voided_at: number | null;
+	voided_by_email: string | null;
+	void_reason: string | null;
 }): RecordView => ({
 	id: r.id,
 	shaft_id: r.shaft_id,
 	recorded_by: r.recorded_by_email,
 	notes: r.notes,
-	created_at: r.created_at
+	created_at: r.created_at,
+	voided:
+		r.voided_at === null
+			? null
+			: { at: r.voided_at, by: r.voided_by_email ?? '', reason: r.void_reason ?? '' }
 });
 
 export function toSealTest(r: Selectable<SealTestsTable>): SealTestView {
@@ -184,18 +201,25 @@ export async function wearOf(db: Kysely<Database>, shaftId: number): Promise<Wea
 			.execute(),
 		db.selectFrom('wear_limits').selectAll().where('shaft_id', '=', shaftId).executeTakeFirst()
 	]);
-	const readings = rows.map((r) => ({
+	// a voided reading is shown but not counted: the earliest reading still in force is the baseline
+	const trend = wearTrend(
+		rows.filter((r) => r.voided_at === null),
+		limit?.wear_limit_mm ?? null
+	);
+	const baseline = trend.baseline?.reading_mm ?? null;
+	const readings: WearReadingView[] = rows.map((r) => ({
 		...base(r),
 		measured_at: r.measured_at,
 		reading_mm: r.reading_mm,
-		method: r.method
+		method: r.method,
+		wear_mm: r.voided_at === null && baseline !== null ? r.reading_mm - baseline : null
 	}));
 	return {
 		wear_limit_mm: limit?.wear_limit_mm ?? null,
 		limit_updated_at: limit?.updated_at ?? null,
 		limit_updated_by: limit?.updated_by_email ?? null,
 		readings,
-		trend: wearTrend(readings, limit?.wear_limit_mm ?? null)
+		trend
 	};
 }
 
@@ -219,6 +243,9 @@ const ATTACHMENT_COLUMNS = [
 	'recorded_by_email',
 	'notes',
 	'created_at',
+	'voided_at',
+	'voided_by_email',
+	'void_reason',
 	'filename',
 	'content_type',
 	'size_bytes',
@@ -281,4 +308,27 @@ export async function shaftRecords(db: Kysely<Database>, shaftId: number): Promi
 		listAttachments(db, shaftId)
 	]);
 	return { seal_tests, bearing_measurements, wear, shrink_fits, attachments };
+}
+
+/** What a report says of a shaft's installation: the latest records in force and the wear trend. */
+export interface RecordsSummary {
+	seal_test: SealTestView | null;
+	bearing_measurement: BearingMeasurementView | null;
+	wear: Pick<WearView, 'wear_limit_mm' | 'trend'>;
+}
+
+export async function recordsSummary(
+	db: Kysely<Database>,
+	shaftId: number
+): Promise<RecordsSummary> {
+	const [seals, bearings, wear] = await Promise.all([
+		listSealTests(db, shaftId),
+		listBearingMeasurements(db, shaftId),
+		wearOf(db, shaftId)
+	]);
+	return {
+		seal_test: seals.find((s) => !s.voided) ?? null,
+		bearing_measurement: bearings.find((b) => !b.voided) ?? null,
+		wear: { wear_limit_mm: wear.wear_limit_mm, trend: wear.trend }
+	};
 }

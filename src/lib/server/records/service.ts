@@ -1,14 +1,19 @@
 /**
  * Adding records: validate (the zod shapes of $lib/schemas/records), judge
  * with the pure functions, store and audit in one transaction. Records are
- * evidence, so they are only ever added; a mistaken entry is corrected by a
- * later one with a note.
+ * evidence, so they are never edited or deleted: a mistaken entry is voided
+ * (kept, with who voided it and why, and no longer counted) and entered again.
  */
 import { createHash } from 'node:crypto';
 import { judgeSealTest } from '$lib/records/seal-test';
 import { runningClearance } from '$lib/records/clearance';
 import { MATERIALS, shrinkFitDeltaK } from '$lib/records/shrink-fit';
-import { ATTACHMENT_TYPES, attachmentTypeOf, MAX_ATTACHMENT_BYTES } from '$lib/records/kinds';
+import {
+	ATTACHMENT_TYPES,
+	attachmentTypeOf,
+	MAX_ATTACHMENT_BYTES,
+	type RecordKind
+} from '$lib/records/kinds';
 import type {
 	BearingMeasurementBody,
 	SealTestBody,
@@ -331,4 +336,52 @@ export async function recordShaft(
 		.executeTakeFirst();
 	if (!shaft) throw new ApiError(404, 'not_found', 'shaft not found');
 	return shaft;
+}
+
+const TABLE_OF = {
+	'seal-tests': 'seal_tests',
+	'bearing-measurements': 'bearing_measurements',
+	wear: 'wear_readings',
+	'shrink-fits': 'shrink_fit_plans',
+	attachments: 'record_attachments'
+} as const satisfies Record<RecordKind, keyof Database>;
+
+/**
+ * Voids a record of the shaft: it stays, with who voided it, when and why,
+ * and counts no more. 404 for a record of another shaft, 409 when it is void already.
+ */
+export async function voidRecord(
+	db: Kysely<Database>,
+	actor: Actor,
+	shaft: RecordShaft,
+	kind: RecordKind,
+	id: number,
+	reason: string
+): Promise<{ id: number; kind: RecordKind; voided_at: number }> {
+	const table = TABLE_OF[kind];
+	const now = Date.now();
+	return db.transaction().execute(async (tx) => {
+		const row = await tx
+			.selectFrom(table)
+			.select(['id', 'voided_at'])
+			.where('id', '=', id)
+			.where('shaft_id', '=', shaft.id)
+			.executeTakeFirst();
+		if (!row) throw new ApiError(404, 'not_found', 'record not found');
+		if (row.voided_at !== null) throw new ApiError(409, 'conflict', 'this record is void already');
+		await tx
+			.updateTable(table)
+			.set({ voided_at: now, voided_by_email: actor.name, void_reason: reason })
+			.where('id', '=', id)
+			.execute();
+		await audit(tx, actor, {
+			action: 'records.void',
+			entity: 'shaft',
+			entityId: shaft.id,
+			vesselId: shaft.vessel_id,
+			details: { kind, record_id: id, reason },
+			at: now
+		});
+		return { id, kind, voided_at: now };
+	});
 }

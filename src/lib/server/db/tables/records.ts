@@ -11,6 +11,10 @@ interface RecordColumns {
 	recorded_by_email: string;
 	notes: Generated<string>;
 	created_at: number;
+	/** set when the record was voided (migrations/20261201_0010_records_void.ts) */
+	voided_at: number | null;
+	voided_by_email: string | null;
+	void_reason: string | null;
 }
 
 export interface SealTestsTable extends RecordColumns {

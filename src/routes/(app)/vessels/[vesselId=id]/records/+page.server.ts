@@ -15,12 +15,14 @@ import {
 	addShrinkFit,
 	addWearReading,
 	setWearLimit,
+	voidRecord,
 	type RecordShaft
 } from '$lib/server/records/service';
 import {
 	bearingMeasurementBody,
 	sealTestBody,
 	shrinkFitBody,
+	voidBody,
 	wearLimitBody,
 	wearReadingBody
 } from '$lib/schemas/records';
@@ -33,7 +35,7 @@ import {
 	wearFromForm,
 	wearLimitFromForm
 } from '$lib/records/forms';
-import { MAX_ATTACHMENT_BYTES } from '$lib/records/kinds';
+import { MAX_ATTACHMENT_BYTES, RECORD_KINDS, type RecordKind } from '$lib/records/kinds';
 
 /** The records of the shaft in ?shaft= (the vessel's first shaft without one). */
 export const load: PageServerLoad = async ({ params, locals, url }) => {
@@ -175,5 +177,39 @@ export const actions: Actions = {
 			throw err;
 		}
 		return { kind: 'attachment', saved: true };
+	},
+	void: async (event) => {
+		const user = pagePermission(event.locals, 'records.write');
+		const form = await event.request.formData();
+		const shaft = await formShaft(event, form);
+		const kind = String(form.get('kind') ?? '') as RecordKind;
+		if (!RECORD_KINDS.includes(kind))
+			return fail(400, { kind: 'void', errors: { _: 'unknown kind of record' }, values: {} });
+		const parsed = voidBody.safeParse({ reason: form.get('reason') ?? '' });
+		if (!parsed.success)
+			return fail(400, {
+				kind: 'void',
+				errors: { _: fieldErrors(parsed.error).reason ?? 'say why' },
+				values: {}
+			});
+		try {
+			await voidRecord(
+				context().db,
+				actorOf(user),
+				shaft,
+				kind,
+				Number(form.get('record_id')),
+				parsed.data.reason
+			);
+		} catch (err) {
+			if (err instanceof ApiError)
+				return fail(err.status === 409 ? 409 : 400, {
+					kind: 'void',
+					errors: { _: err.message },
+					values: {}
+				});
+			throw err;
+		}
+		return { kind: 'void', saved: true };
 	}
 };

@@ -7,6 +7,7 @@ import { shaftCompliance } from '$lib/server/history/compliance';
 import { historyOf } from '$lib/server/history/shaft-context';
 import { periodFromQuery } from '$lib/history/range';
 import { ROLE_LABELS } from '$lib/types';
+import { recordsSummary } from '$lib/server/records/repository';
 
 /** The report's figures are computed here, so the page prints complete without waiting on a fetch. */
 export const load: PageServerLoad = async ({ params, locals, url }) => {
@@ -32,7 +33,8 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 				gapMs: h.gapMs,
 				minFlowLpm: h.minFlowLpm,
 				items: true
-			})
+			}),
+			records: await recordsSummary(ctx.db, shaft.id)
 		});
 	}
 	return {
