@@ -344,6 +344,8 @@ describe('seal pressure tests', () => {
 			['leak_seen', noLeak],
 			['test_pressure_bar', sealTest(0, { test_pressure_bar: -3 })],
 			['readings', sealTest(0, { readings: [{ t_s: 0, pressure_bar: 3 }] })],
+			// a 0.5 bar step on a 3 bar test could not show the 10 % fall that fails it
+			['resolution_bar', sealTest(0, { resolution_bar: 0.5 })],
 			['tested_at', sealTest(0, { tested_at: '2026-11-20T09:30:00' })], // no zone: which 09:30?
 			['tested_at', sealTest(0, { tested_at: 1_764_000_000 })] // epoch seconds, not ms: 1970 if taken as ms
 		];
@@ -628,6 +630,24 @@ describe('attachments', () => {
 		expect(file.headers.get('content-disposition')).toBe("inline; filename*=UTF-8''pump-room.png");
 		expect(new Uint8Array(await file.arrayBuffer())).toEqual(png);
 
+		// a PDF is downloaded, not opened on the app's own origin, unless asked for inline
+		const pdfBytes = new TextEncoder().encode(
+			'%PDF-1.4\n%âãÏÓ\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n'
+		);
+		const pdf = await fetch(server.url + records(shaft, '/attachments?filename=survey.pdf'), {
+			method: 'POST',
+			body: pdfBytes,
+			headers: { cookie: chief.cookie!, 'content-type': 'application/pdf' }
+		});
+		expect(pdf.status).toBe(201);
+		const pdfUrl = (await pdf.json()).attachment.url as string;
+		expect((await shore.get(pdfUrl)).headers.get('content-disposition')).toBe(
+			"attachment; filename*=UTF-8''survey.pdf"
+		);
+		expect((await shore.get(`${pdfUrl}?inline`)).headers.get('content-disposition')).toMatch(
+			/^inline;/
+		);
+
 		const listed = (await (await shore.get(records(shaft, '/attachments'))).json()).attachments;
 		expect(listed.map((a: { id: number }) => a.id)).toContain(attachment.id);
 		expect(
@@ -791,6 +811,40 @@ describe('roles and vessel scope', () => {
 			expect([method, path, res.status]).toEqual([method, path, 401]);
 		}
 		expect((await attach(anon, shaft, 'x.png', tinyPng(), 'image/png')).status).toBe(401);
+		expect(counts(shaft)).toEqual(before);
+	});
+});
+
+describe('the records page without script', () => {
+	it('answers a refused form on the page of the same shaft, keeping what was typed', async () => {
+		const { vessel, shaft } = ids['corrin-bay/stbd']; // the vessel's second shaft
+		const before = counts(shaft);
+		const body = new URLSearchParams({
+			shaft_id: String(shaft),
+			measured_at: '2026-11-20',
+			reading: 'lots',
+			notes: 'kept'
+		});
+		// the form's own action URL: the shaft stays in the query beside the action's name
+		const res = await fetch(`${server.url}/vessels/${vessel}/records?shaft=${shaft}&/wear`, {
+			method: 'POST',
+			body,
+			headers: {
+				cookie: tech.cookie!,
+				origin: server.env.ORIGIN,
+				accept: 'text/html',
+				'content-type': 'application/x-www-form-urlencoded'
+			}
+		});
+		expect(res.status).toBe(400);
+		const html = await res.text();
+		const form = html.slice(
+			html.indexOf('data-testid="form-wear"'),
+			html.indexOf('</form>', html.indexOf('data-testid="form-wear"'))
+		);
+		expect(form).toContain(`name="shaft_id" value="${shaft}"`);
+		expect(form).toMatch(/class="field-error"/);
+		expect(form).toContain('value="lots"');
 		expect(counts(shaft)).toEqual(before);
 	});
 });

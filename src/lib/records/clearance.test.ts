@@ -7,7 +7,7 @@ describe('running clearance', () => {
 		const c = runningClearance({ bore_mm: 401.2, journal_mm: 400 });
 		expect(c.clearance_mm).toBeCloseTo(1.2, 12);
 		expect(c.per_mille).toBeCloseTo(3, 12);
-		expect(c.state).toBe('ok');
+		expect(c.state).toBe('no_limit');
 	});
 
 	it('flags a clearance over the maker’s limit and a bore smaller than the journal', () => {
@@ -18,5 +18,8 @@ describe('running clearance', () => {
 			'ok'
 		);
 		expect(runningClearance({ bore_mm: 399.9, journal_mm: 400 }).state).toBe('interference');
+		expect(runningClearance({ bore_mm: 399.9, journal_mm: 400, max_clearance_mm: 2 }).state).toBe(
+			'interference'
+		);
 	});
 });

@@ -20,16 +20,28 @@ export interface ClearanceJudgement {
 	/** clearance ÷ journal diameter, per mille */
 	per_mille: number;
 	/** 'interference' when the bore is smaller than the journal */
-	state: 'ok' | 'over_limit' | 'interference';
+	/** 'no_limit' when no renewal limit was entered to compare with */
+	state: ClearanceState;
 }
+
+export type ClearanceState = 'ok' | 'no_limit' | 'over_limit' | 'interference';
+
+export const CLEARANCE_STATE_WORDS: Record<ClearanceState, string> = {
+	ok: 'Within limit',
+	no_limit: 'No limit set',
+	over_limit: 'Over the limit',
+	interference: 'Bore smaller than journal'
+};
 
 export function runningClearance(input: ClearanceInput): ClearanceJudgement {
 	const clearance = input.bore_mm - input.journal_mm;
 	const state =
 		clearance <= 0
 			? 'interference'
-			: input.max_clearance_mm != null && clearance > input.max_clearance_mm
-				? 'over_limit'
-				: 'ok';
+			: input.max_clearance_mm == null
+				? 'no_limit'
+				: clearance > input.max_clearance_mm
+					? 'over_limit'
+					: 'ok';
 	return { clearance_mm: clearance, per_mille: (clearance / input.journal_mm) * 1000, state };
 }

@@ -84,7 +84,16 @@ describe('seal pressure test', () => {
 		// drop 0.4 bar < resolution 0.5, but 0.4 / 3.0 = 13 % > 10 %
 		expect(j.drop_share).toBeCloseTo(0.4 / 3, 12);
 		expect(j.result).toBe('fail');
-		expect(j.reasons.join()).toMatch(/13 % of the start pressure/);
+		expect(j.reasons.join()).toMatch(/13 % of the pressure it fell from/);
+	});
+
+	it('measures a fall from the peak when the pressure overshoots and then sinks', () => {
+		// 3.00 → 3.40 → 3.05 bar: a fall of 0.35 bar, 0.35 / 3.40 = 10.3 % of the pressure it fell from
+		const j = judgeSealTest({ ...base, readings: series(0, 180, 3.05, { 0: 3.0, 30: 3.4 }) });
+		expect(j.drop_bar).toBeCloseTo(0.35, 12);
+		expect(j.drop_share).toBeCloseTo(0.35 / 3.4, 12);
+		expect(j.result).toBe('fail');
+		expect(j.reasons.join()).toMatch(/10 % of the pressure it fell from, more than 10 %/);
 	});
 
 	it('warns of a gauge coarser than a tenth of the leak limit', () => {

@@ -46,9 +46,9 @@ export interface SealTestJudgement {
 	/** the lowest reading after the start of the hold */
 	lowest_bar: number | null;
 	end_bar: number | null;
-	/** start − lowest, bar (0 when nothing fell) */
+	/** the largest fall from a reading to a later one during the hold, bar (0 when nothing fell) */
 	drop_bar: number;
-	/** drop ÷ start pressure */
+	/** drop ÷ the pressure it fell from */
 	drop_share: number;
 	/** why it failed, in words; empty when it passed */
 	reasons: string[];
@@ -85,8 +85,19 @@ export function judgeSealTest(input: SealTestInput): SealTestJudgement {
 	const end = hold[hold.length - 1];
 	const lowest = Math.min(...hold.map((r) => r.pressure_bar));
 	const held = end.t_s - start.t_s;
-	const drop = Math.max(0, start.pressure_bar - lowest);
-	const dropShare = start.pressure_bar > 0 ? drop / start.pressure_bar : 0;
+	// the largest fall from any reading to a later one: a pressure that overshoots and then
+	// sinks has fallen from its peak, not from where the hold began
+	let peak = hold[0].pressure_bar;
+	let drop = 0;
+	let dropFrom = peak;
+	for (const r of hold) {
+		if (r.pressure_bar > peak) peak = r.pressure_bar;
+		if (peak - r.pressure_bar > drop) {
+			drop = peak - r.pressure_bar;
+			dropFrom = peak;
+		}
+	}
+	const dropShare = dropFrom > 0 ? drop / dropFrom : 0;
 
 	if (held < input.hold_s)
 		reasons.push(
@@ -100,7 +111,7 @@ export function judgeSealTest(input: SealTestInput): SealTestJudgement {
 		);
 	if (dropShare > MAX_DROP_SHARE)
 		reasons.push(
-			`the fall is ${Math.round(dropShare * 100)} % of the start pressure, more than 10 %`
+			`the fall is ${Math.round(dropShare * 100)} % of the pressure it fell from, more than 10 %`
 		);
 	if (input.leak_seen) reasons.push('a leak was seen');
 

@@ -35,29 +35,38 @@ const when = z.union([z.number().int(), z.string().trim().min(1)]).transform((v,
 const mm = (max: number) =>
 	z.number().finite().positive('more than 0').max(max, `at most ${max} mm`);
 
-export const sealTestBody = z.object({
-	seal: z.enum(SEAL_POSITIONS).default('aft'),
-	tested_at: when,
-	test_pressure_bar: z.number().finite().positive('more than 0').max(50, 'at most 50 bar'),
-	hold_s: z.number().int('whole seconds').min(10, 'at least 10 s').max(86_400, 'at most a day'),
-	resolution_bar: z.number().finite().positive('more than 0').max(5, 'at most 5 bar'),
-	leak_seen: z.boolean(),
-	readings: z
-		.array(
-			z.object({
-				t_s: z
-					.number()
-					.finite()
-					.min(0, 'seconds from the start, 0 or more')
-					.max(86_400 * 2),
-				pressure_bar: z.number().finite().min(-1.1).max(100)
-			})
-		)
-		.min(2, 'at least two readings: the start and the end of the hold')
-		.max(10_000, 'at most 10 000 readings')
-		.refine((r) => new Set(r.map((x) => x.t_s)).size === r.length, 'two readings at the same time'),
-	notes
-});
+export const sealTestBody = z
+	.object({
+		seal: z.enum(SEAL_POSITIONS).default('aft'),
+		tested_at: when,
+		test_pressure_bar: z.number().finite().positive('more than 0').max(50, 'at most 50 bar'),
+		hold_s: z.number().int('whole seconds').min(10, 'at least 10 s').max(86_400, 'at most a day'),
+		resolution_bar: z.number().finite().positive('more than 0').max(5, 'at most 5 bar'),
+		leak_seen: z.boolean(),
+		readings: z
+			.array(
+				z.object({
+					t_s: z
+						.number()
+						.finite()
+						.min(0, 'seconds from the start, 0 or more')
+						.max(86_400 * 2),
+					pressure_bar: z.number().finite().min(-1.1).max(100)
+				})
+			)
+			.min(2, 'at least two readings: the start and the end of the hold')
+			.max(10_000, 'at most 10 000 readings')
+			.refine(
+				(r) => new Set(r.map((x) => x.t_s)).size === r.length,
+				'two readings at the same time'
+			),
+		notes
+	})
+	// a gauge whose step is as large as the allowed fall (10 % of the test pressure) cannot judge the test
+	.refine((b) => !(b.test_pressure_bar > 0) || b.resolution_bar < b.test_pressure_bar * 0.1, {
+		message: 'the gauge is too coarse for this test pressure: its step must be under 10 % of it',
+		path: ['resolution_bar']
+	});
 export type SealTestBody = z.output<typeof sealTestBody>;
 
 export const bearingMeasurementBody = z

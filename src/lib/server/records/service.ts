@@ -262,6 +262,8 @@ export async function addAttachment(
 	if (file.bytes.length === 0)
 		throw new ApiError(422, 'invalid', 'file: the file is empty', { file: 'empty' });
 	if (file.bytes.length > MAX_ATTACHMENT_BYTES) throw attachmentTooLarge(file.bytes.length);
+	if (file.notes.trim().length > 2000)
+		throw new ApiError(422, 'invalid', 'notes: at most 2000 characters', { notes: 'too_long' });
 	const type = attachmentTypeOf(file.bytes);
 	if (!type) {
 		throw new ApiError(
@@ -283,7 +285,7 @@ export async function addAttachment(
 				size_bytes: file.bytes.length,
 				sha256,
 				content: Buffer.from(file.bytes),
-				notes: file.notes.trim().slice(0, 2000)
+				notes: file.notes.trim()
 			})
 			.returning('id')
 			.executeTakeFirstOrThrow();

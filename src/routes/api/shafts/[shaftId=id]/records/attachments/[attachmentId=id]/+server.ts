@@ -14,7 +14,11 @@ export const GET = route(async ({ params, url }) => {
 	const shaft = await recordShaft(db, params);
 	const found = await getAttachment(db, shaft.id, Number(params.attachmentId));
 	if (!found) throw notFound('attachment');
-	const disposition = url.searchParams.has('download') ? 'attachment' : 'inline';
+	// images open in the page; a PDF (which may carry scripts of its own) is downloaded unless asked for inline
+	const inline = found.view.content_type.startsWith('image/')
+		? !url.searchParams.has('download')
+		: url.searchParams.has('inline');
+	const disposition = inline ? 'inline' : 'attachment';
 	return new Response(new Uint8Array(found.content), {
 		headers: {
 			'content-type': found.view.content_type,
