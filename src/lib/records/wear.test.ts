@@ -46,6 +46,7 @@ describe('wear-down trend', () => {
 			[0, 0.5, 1.1, 1.4].map((w) => expect.closeTo(w, 12))
 		);
 		expect(t.rate_mm_per_year).toBeCloseTo(0.48, 12);
+		expect(t.intercept_mm).toBeCloseTo(0.03, 12);
 		expect(t.latest_wear_mm).toBeCloseTo(1.4, 12);
 		expect(t.remaining_mm).toBeCloseTo(2.6, 12);
 		expect((t.projected_limit_at! - t0) / MS_PER_YEAR).toBeCloseTo(3.97 / 0.48, 6);

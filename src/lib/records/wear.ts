@@ -26,6 +26,8 @@ export interface WearTrend {
 	points: WearPoint[];
 	/** fitted wear rate, mm per year; null with fewer than two readings on different days */
 	rate_mm_per_year: number | null;
+	/** the fitted line's wear at the baseline's time, mm (wear = intercept + rate × years since) */
+	intercept_mm: number | null;
 	/** wear of the latest reading */
 	latest_wear_mm: number | null;
 	limit_mm: number | null;
@@ -60,6 +62,7 @@ export function wearTrend(readings: WearReading[], limitMm: number | null): Wear
 			baseline: null,
 			points: [],
 			rate_mm_per_year: null,
+			intercept_mm: null,
 			latest_wear_mm: null,
 			limit_mm: limitMm,
 			remaining_mm: null,
@@ -85,6 +88,7 @@ export function wearTrend(readings: WearReading[], limitMm: number | null): Wear
 		baseline,
 		points,
 		rate_mm_per_year: line ? line.slope : null,
+		intercept_mm: line ? line.intercept : null,
 		latest_wear_mm: latest,
 		limit_mm: limitMm,
 		remaining_mm: limitMm == null ? null : limitMm - latest,
