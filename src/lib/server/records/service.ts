@@ -21,8 +21,9 @@ import type {
 	WearReadingBody
 } from '$lib/schemas/records';
 import { ApiError } from '../api/errors';
+import type { UploadRules } from '../api/upload';
 import { audit, type Actor } from '../audit';
-import type { Kysely } from 'kysely';
+import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../db/schema';
 import {
 	attachmentView,
@@ -40,6 +41,25 @@ import {
 export interface RecordShaft {
 	id: number;
 	vessel_id: number;
+}
+
+/** Every change of a shaft's records is audited against the shaft, with its vessel. */
+function auditRecord(
+	tx: Transaction<Database>,
+	actor: Actor,
+	shaft: RecordShaft,
+	action: string,
+	details: Record<string, unknown>,
+	at?: number
+) {
+	return audit(tx, actor, {
+		action,
+		entity: 'shaft',
+		entityId: shaft.id,
+		vesselId: shaft.vessel_id,
+		details,
+		at
+	});
 }
 
 const who = (actor: Actor, shaft: RecordShaft, now: number) => ({
@@ -75,18 +95,12 @@ export async function addSealTest(
 			})
 			.returningAll()
 			.executeTakeFirstOrThrow();
-		await audit(tx, actor, {
-			action: 'records.seal_test.add',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				record_id: row.id,
-				seal: body.seal,
-				result: judgement.result,
-				test_pressure_bar: body.test_pressure_bar,
-				hold_s: body.hold_s
-			}
+		await auditRecord(tx, actor, shaft, 'records.seal_test.add', {
+			record_id: row.id,
+			seal: body.seal,
+			result: judgement.result,
+			test_pressure_bar: body.test_pressure_bar,
+			hold_s: body.hold_s
 		});
 		return toSealTest(row);
 	});
@@ -114,18 +128,12 @@ export async function addBearingMeasurement(
 			})
 			.returningAll()
 			.executeTakeFirstOrThrow();
-		await audit(tx, actor, {
-			action: 'records.bearing_measurement.add',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				record_id: row.id,
-				bearing: body.bearing,
-				bore_mm: body.bore_mm,
-				journal_mm: body.journal_mm,
-				clearance_mm: clearance.clearance_mm
-			}
+		await auditRecord(tx, actor, shaft, 'records.bearing_measurement.add', {
+			record_id: row.id,
+			bearing: body.bearing,
+			bore_mm: body.bore_mm,
+			journal_mm: body.journal_mm,
+			clearance_mm: clearance.clearance_mm
 		});
 		return toBearingMeasurement(row);
 	});
@@ -149,17 +157,11 @@ export async function addWearReading(
 			})
 			.returning('id')
 			.executeTakeFirstOrThrow();
-		await audit(tx, actor, {
-			action: 'records.wear_reading.add',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				record_id: row.id,
-				measured_at: body.measured_at,
-				reading_mm: body.reading_mm,
-				method: body.method
-			}
+		await auditRecord(tx, actor, shaft, 'records.wear_reading.add', {
+			record_id: row.id,
+			measured_at: body.measured_at,
+			reading_mm: body.reading_mm,
+			method: body.method
 		});
 	});
 	return wearOf(db, shaft.id);
@@ -187,15 +189,9 @@ export async function setWearLimit(
 			.values({ shaft_id: shaft.id, ...values })
 			.onConflict((oc) => oc.column('shaft_id').doUpdateSet(values))
 			.execute();
-		await audit(tx, actor, {
-			action: 'records.wear_limit.set',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				wear_limit_mm: { from: before?.wear_limit_mm ?? null, to: body.wear_limit_mm },
-				reason: body.reason
-			}
+		await auditRecord(tx, actor, shaft, 'records.wear_limit.set', {
+			wear_limit_mm: { from: before?.wear_limit_mm ?? null, to: body.wear_limit_mm },
+			reason: body.reason
 		});
 	});
 	return wearOf(db, shaft.id);
@@ -229,18 +225,12 @@ export async function addShrinkFit(
 			})
 			.returningAll()
 			.executeTakeFirstOrThrow();
-		await audit(tx, actor, {
-			action: 'records.shrink_fit.add',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				record_id: row.id,
-				bore_mm: body.bore_mm,
-				interference_mm: body.interference_mm,
-				material: body.material,
-				heat_to_c: row.heat_to_c
-			}
+		await auditRecord(tx, actor, shaft, 'records.shrink_fit.add', {
+			record_id: row.id,
+			bore_mm: body.bore_mm,
+			interference_mm: body.interference_mm,
+			material: body.material,
+			heat_to_c: row.heat_to_c
 		});
 		return toShrinkFit(row);
 	});
@@ -289,18 +279,12 @@ export async function addAttachment(
 			})
 			.returning('id')
 			.executeTakeFirstOrThrow();
-		await audit(tx, actor, {
-			action: 'records.attachment.add',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: {
-				record_id: row.id,
-				filename: name,
-				content_type: type,
-				size_bytes: file.bytes.length,
-				sha256
-			}
+		await auditRecord(tx, actor, shaft, 'records.attachment.add', {
+			record_id: row.id,
+			filename: name,
+			content_type: type,
+			size_bytes: file.bytes.length,
+			sha256
 		});
 		return row.id;
 	});
@@ -313,6 +297,17 @@ export const attachmentTooLarge = (bytes: number) =>
 		'too_large',
 		`the file is ${(bytes / 1_048_576).toFixed(1)} MB; the limit is ${MAX_ATTACHMENT_BYTES / 1_048_576} MB`
 	);
+
+/** How the records read an attached file, from the API or the page's form. */
+export const ATTACHMENT_UPLOAD: UploadRules = {
+	maxBytes: MAX_ATTACHMENT_BYTES,
+	tooLarge: attachmentTooLarge,
+	rawTypes: Object.keys(ATTACHMENT_TYPES),
+	defaultName: 'attachment',
+	missing: 'choose a photo or PDF to attach',
+	unsupported:
+		'send multipart/form-data (field "file") or the file itself as image/jpeg, image/png, image/webp or application/pdf'
+};
 
 /** A name safe to send back in Content-Disposition, with the extension of its real type. */
 function safeName(name: string, type: keyof typeof ATTACHMENT_TYPES): string {
@@ -376,14 +371,7 @@ export async function voidRecord(
 			.set({ voided_at: now, voided_by_email: actor.name, void_reason: reason })
 			.where('id', '=', id)
 			.execute();
-		await audit(tx, actor, {
-			action: 'records.void',
-			entity: 'shaft',
-			entityId: shaft.id,
-			vesselId: shaft.vessel_id,
-			details: { kind, record_id: id, reason },
-			at: now
-		});
+		await auditRecord(tx, actor, shaft, 'records.void', { kind, record_id: id, reason }, now);
 		return { id, kind, voided_at: now };
 	});
 }

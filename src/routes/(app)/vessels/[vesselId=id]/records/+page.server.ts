@@ -5,6 +5,7 @@ import { can } from '$lib/permissions';
 import { pagePermission, pageUser } from '$lib/server/auth/page-guard';
 import { actorOf, type Actor } from '$lib/server/audit';
 import { ApiError, fieldErrors } from '$lib/server/api/errors';
+import { readUpload, type Upload } from '$lib/server/api/upload';
 import { context } from '$lib/server/context';
 import { getVessel } from '$lib/server/fleet/repository';
 import { shaftRecords } from '$lib/server/records/repository';
@@ -12,6 +13,7 @@ import {
 	addAttachment,
 	addBearingMeasurement,
 	addSealTest,
+	ATTACHMENT_UPLOAD,
 	addShrinkFit,
 	addWearReading,
 	setWearLimit,
@@ -35,7 +37,7 @@ import {
 	wearFromForm,
 	wearLimitFromForm
 } from '$lib/records/forms';
-import { MAX_ATTACHMENT_BYTES, RECORD_KINDS, type RecordKind } from '$lib/records/kinds';
+import { RECORD_KINDS, type RecordKind } from '$lib/records/kinds';
 
 /** The records of the shaft in ?shaft= (the vessel's first shaft without one). */
 export const load: PageServerLoad = async ({ params, locals, url }) => {
@@ -53,11 +55,14 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 };
 
 /** The shaft a form posts for: one of this vessel's (the vessel is in scope: hooks checked it). */
-async function formShaft(event: RequestEvent, form: FormData): Promise<RecordShaft> {
+async function formShaft(
+	event: RequestEvent,
+	shaftId: FormDataEntryValue | null
+): Promise<RecordShaft> {
 	const shaft = await context()
 		.db.selectFrom('shafts')
 		.select(['id', 'vessel_id'])
-		.where('id', '=', Number(form.get('shaft_id')))
+		.where('id', '=', Number(shaftId))
 		.where('vessel_id', '=', Number(event.params.vesselId))
 		.executeTakeFirst();
 	if (!shaft) error(404, 'Not found');
@@ -82,7 +87,7 @@ function recordAction<S extends z.ZodType>(
 	return async (event: RequestEvent) => {
 		const user = pagePermission(event.locals, 'records.write');
 		const form = await event.request.formData();
-		const shaft = await formShaft(event, form);
+		const shaft = await formShaft(event, form.get('shaft_id'));
 		const fields = formFields(form);
 		const values = Object.fromEntries(
 			Object.entries(fields).filter(([, v]) => typeof v === 'string')
@@ -144,36 +149,29 @@ export const actions: Actions = {
 	),
 	attachment: async (event) => {
 		const user = pagePermission(event.locals, 'records.write');
-		const length = Number(event.request.headers.get('content-length') ?? 0);
-		if (length > MAX_ATTACHMENT_BYTES + 64 * 1024)
-			return fail(413, {
+		const refused = (err: ApiError, notes: string) =>
+			fail(err.status === 413 ? 413 : 400, {
 				kind: 'attachment',
-				errors: { file: `the file is larger than ${MAX_ATTACHMENT_BYTES / 1_048_576} MB` },
-				values: {}
-			});
-		const form = await event.request.formData();
-		const shaft = await formShaft(event, form);
-		const file = form.get('file');
-		const notes = String(form.get('notes') ?? '');
-		if (!(file instanceof File) || file.size === 0)
-			return fail(400, {
-				kind: 'attachment',
-				errors: { file: 'choose a photo or PDF' },
+				errors: { file: err.message.replace(/^file: /, '') },
 				values: { notes }
 			});
+		let upload: Upload;
+		try {
+			upload = await readUpload(event, ATTACHMENT_UPLOAD);
+		} catch (err) {
+			if (err instanceof ApiError) return refused(err, '');
+			throw err;
+		}
+		const shaft = await formShaft(event, upload.field('shaft_id'));
+		const notes = upload.field('notes') ?? '';
 		try {
 			await addAttachment(context().db, actorOf(user), shaft, {
-				name: file.name,
-				bytes: new Uint8Array(await file.arrayBuffer()),
+				name: upload.name,
+				bytes: upload.bytes,
 				notes
 			});
 		} catch (err) {
-			if (err instanceof ApiError)
-				return fail(err.status === 413 ? 413 : 400, {
-					kind: 'attachment',
-					errors: { file: err.message },
-					values: { notes }
-				});
+			if (err instanceof ApiError) return refused(err, notes);
 			throw err;
 		}
 		return { kind: 'attachment', saved: true };
@@ -181,7 +179,7 @@ export const actions: Actions = {
 	void: async (event) => {
 		const user = pagePermission(event.locals, 'records.write');
 		const form = await event.request.formData();
-		const shaft = await formShaft(event, form);
+		const shaft = await formShaft(event, form.get('shaft_id'));
 		const kind = String(form.get('kind') ?? '') as RecordKind;
 		if (!RECORD_KINDS.includes(kind))
 			return fail(400, { kind: 'void', errors: { _: 'unknown kind of record' }, values: {} });

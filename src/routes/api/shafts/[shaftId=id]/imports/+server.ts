@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { ApiError } from '$lib/server/api/errors';
 import { requirePermission, route } from '$lib/server/api/handler';
+import { readUpload } from '$lib/server/api/upload';
 import { actorOf } from '$lib/server/audit';
 import { context } from '$lib/server/context';
 import { listImports } from '$lib/server/history/imports/repository';
@@ -25,39 +26,14 @@ export const POST = route(async (event) => {
 	const user = requirePermission(event, 'history.upload');
 	const ctx = context();
 	const h = await shaftOfPath(ctx, event.params);
-	const type = (event.request.headers.get('content-type') ?? '').toLowerCase();
-	// the multipart envelope adds a few hundred bytes to the file
-	const length = Number(event.request.headers.get('content-length') ?? 0);
-	if (length > MAX_UPLOAD_BYTES + 64 * 1024) throw tooLarge(length);
-
-	let file: { name: string; type: string; bytes: Uint8Array };
-	if (type.startsWith('multipart/form-data')) {
-		let form: FormData;
-		try {
-			form = await event.request.formData();
-		} catch {
-			throw new ApiError(400, 'bad_body', 'the body is not readable multipart/form-data');
-		}
-		const part = form.get('file');
-		if (!(part instanceof File))
-			throw new ApiError(422, 'invalid', 'file: choose a file to upload', { file: 'required' });
-		if (part.size > MAX_UPLOAD_BYTES) throw tooLarge(part.size);
-		file = { name: part.name, type: part.type, bytes: new Uint8Array(await part.arrayBuffer()) };
-	} else if (type.startsWith('text/csv') || type.startsWith('text/plain')) {
-		const bytes = new Uint8Array(await event.request.arrayBuffer());
-		if (bytes.length > MAX_UPLOAD_BYTES) throw tooLarge(bytes.length);
-		file = {
-			name: event.url.searchParams.get('filename') || 'upload.csv',
-			type: type.split(';')[0],
-			bytes
-		};
-	} else {
-		throw new ApiError(
-			415,
-			'unsupported_media_type',
-			'send the file as multipart/form-data (field "file") or as a text/csv body'
-		);
-	}
+	const file = await readUpload(event, {
+		maxBytes: MAX_UPLOAD_BYTES,
+		tooLarge,
+		rawTypes: ['text/csv', 'text/plain'],
+		defaultName: 'upload.csv',
+		missing: 'choose a file to upload',
+		unsupported: 'send the file as multipart/form-data (field "file") or as a text/csv body'
+	});
 	return json(await createImport(ctx, actorOf(user), h, file), { status: 201 });
 });
 
