@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { gzipSync } from 'node:zlib';
 import type { MqttClient } from 'mqtt';
 import { startServer, type TestServer } from '../helpers/server';
-import { connectGateway, telemetry } from '../helpers/gateway';
+import { PREFIX, connectGateway, telemetry } from '../helpers/gateway';
 import { ARTIFACTS, launchBrowser, type TestBrowser } from './browser';
 
 let server: TestServer;
@@ -99,6 +99,42 @@ describe('live watch', () => {
 		const total = [...scripts.values()].reduce((a, b) => a + b, 0);
 		expect(scripts.size).toBeGreaterThan(0);
 		expect(total).toBeLessThan(150 * 1024);
+		await context.close();
+	});
+
+	it('the separator page follows the purge valve and reloads its data when a purge starts, without waiting for its 15 s refresh', async () => {
+		const { context, page } = await browser.signedIn(server.url, 'tech@demo.test');
+		await page.goto(`${server.url}/vessels/${CORRIN_BAY}/separator`);
+		await expect.poll(() => page.getByTestId('stream-status').getAttribute('data-status'), { timeout: 10_000 }).toBe('live');
+		const now = page.getByLabel('Separator now');
+		const state = (dp_bar: number, purge_valve: 'open' | 'closed') =>
+			gateway.publish(`${PREFIX}/corrin-bay/separator/state`, JSON.stringify({ ts: Date.now(), dp_bar, purge_valve }), { qos: 1 });
+
+		// each wait is far shorter than the page's own 15 s refresh: only the stream can meet it
+		const reloaded = page.waitForRequest((r) => r.url().includes('/separator/__data.json'), { timeout: 4_000 });
+		state(0.42, 'open');
+		await expect.poll(() => now.textContent(), { timeout: 4_000 }).toContain('Open');
+		await reloaded;
+		expect(await now.textContent()).toContain('0.42 bar');
+		state(0.18, 'closed');
+		await expect.poll(() => now.textContent(), { timeout: 4_000 }).toContain('Closed');
+		await context.close();
+	});
+
+	it('following a link from one vessel to another (as the alarm banner does) shows the other vessel live, not the first', async () => {
+		const { context, page } = await browser.signedIn(server.url, 'fleet@demo.test');
+		await page.goto(`${server.url}/vessels/${CORRIN_BAY}`);
+		await expect.poll(() => page.getByTestId('stream-status').getAttribute('data-status'), { timeout: 10_000 }).toBe('live');
+		const other = 2;
+		const opened = page.waitForRequest((r) => r.url().includes(`/api/vessels/${other}/live`), { timeout: 5_000 });
+		// a client-side navigation between two vessels' pages, through the router like any link in the app
+		await page.evaluate((href) => {
+			const a = Object.assign(document.createElement('a'), { href, textContent: 'next vessel' });
+			document.body.append(a);
+			a.click();
+		}, `/vessels/${other}`);
+		await opened;
+		await expect.poll(() => page.url()).toMatch(new RegExp(`/vessels/${other}$`));
 		await context.close();
 	});
 
