@@ -7,7 +7,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer, type TestServer } from './helpers/server';
-import { signIn, type Client } from './helpers/http';
+import { postAction, postForm, signIn, type Client } from './helpers/http';
 
 let server: TestServer;
 let admin: Client;
@@ -62,6 +62,22 @@ describe('vessel scope', () => {
 		expect((await chief.get(`/vessels/${ids['hallow-tern/main'].vessel}/uploads`)).status).toBe(
 			404
 		);
+	});
+
+	it('a shaft page under another vessel than its own is 404, its form actions too; a separator alarm is refused there', async () => {
+		const corrin = ids['corrin-bay/port'];
+		const skerry = ids['skerry-lark/port']; // the chief sees both vessels
+		const form = new URLSearchParams({ type: 'low_flow', out_of_service: 'true', reason: 'flow meter replaced' });
+		const wrong = `/vessels/${corrin.vessel}/shafts/${skerry.shaft}`;
+		expect((await chief.get(wrong)).status).toBe(404);
+		expect((await postForm(chief, server.env.ORIGIN, `${wrong}?/service`, form)).status).toBe(404);
+		const sep = await postAction(chief, server.env.ORIGIN, `/vessels/${corrin.vessel}/shafts/${corrin.shaft}?/service`, {
+			type: 'purge_missed',
+			out_of_service: 'true',
+			reason: 'separator under repair'
+		});
+		expect(sep.failure).toBe(400);
+		expect(sep.data!.service.errors.type).toMatch(/separator/);
 	});
 
 	it('the fleet table lists only the shafts the caller may see', async () => {
@@ -214,6 +230,20 @@ describe('history API', () => {
 		).json();
 		expect(auto.bucket).toBe('1h');
 		expect((await shore.get(`/api/shafts/${port}/samples?from=yesterday`)).status).toBe(400);
+	});
+
+	it('1-minute buckets are capped at 31 days and 1-hour buckets at five years, so no answer stalls the server', async () => {
+		const port = ids['corrin-bay/port'].shaft;
+		const ask = (bucket: string, from: string, to: string) =>
+			shore.get(`/api/shafts/${port}/samples?bucket=${bucket}&from=${from}&to=${to}`);
+		expect((await ask('1m', '2026-01-01T00:00:00Z', '2026-02-01T00:00:00Z')).status).toBe(200); // 31 days
+		const month = await ask('1m', '2026-01-01T00:00:00Z', '2026-02-01T00:00:01Z');
+		expect(month.status).toBe(400);
+		expect((await month.json()).error).toMatchObject({ code: 'range_too_long', fields: { bucket: '1h' } });
+		expect((await ask('1h', '2021-01-01T00:00:00Z', '2026-01-01T00:00:00Z')).status).toBe(200);
+		const decade = await ask('auto', '2006-01-01T00:00:00Z', '2026-01-01T00:00:00Z');
+		expect(decade.status).toBe(400);
+		expect((await decade.json()).error.message).toMatch(/five years.*CSV/);
 	});
 
 	it('the export is streamed, not sized in advance, and named for what it holds', async () => {

@@ -6,7 +6,7 @@
  * do); the vessel scope of the `vesselId` parameter is the hooks' guard.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { appUser, startTestApp, type TestApp } from './helpers/app';
+import { appUser, shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { routeEvent } from './helpers/route';
 import * as users from '$lib/server/users/repository';
 import { savePreferences } from '$lib/server/mail/preferences';
@@ -179,6 +179,14 @@ describe('notification settings API', () => {
 		expect(
 			await routeInScope(app.ctx.db, await user('fleet@demo.test'), { vesselId: String(skerryId) })
 		).toBe(true);
+	});
+
+	it('a path naming a vessel and another vessel’s shaft names nothing, even for a user who sees both', async () => {
+		const fleet = await user('fleet@demo.test');
+		const skerryShaft = (await shaftIds(app.ctx, 'skerry-lark', 'port')).shaftId;
+		expect(await routeInScope(app.ctx.db, fleet, { vesselId: String(skerryId), shaftId: String(skerryShaft) })).toBe(true);
+		// e.g. a form action posted to /vessels/{corrin}/shafts/{skerry's shaft}
+		expect(await routeInScope(app.ctx.db, fleet, { vesselId: String(corrinId), shaftId: String(skerryShaft) })).toBe(false);
 	});
 });
 

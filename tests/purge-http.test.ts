@@ -199,6 +199,10 @@ describe('POST /api/vessels/{id}/purge and GET …/purges', () => {
 		expect(
 			(await chief.get(`/api/vessels/${ids['skerry-lark']}/purges?from=yesterday`)).status
 		).toBe(400);
+		// a number of ms no Date can hold is a bad query, not a server error
+		const far = await chief.get(`/api/vessels/${ids['skerry-lark']}/purges?to=99999999999999999`);
+		expect(far.status).toBe(400);
+		expect((await far.json()).error.fields).toHaveProperty('to');
 	});
 });
 

@@ -4,7 +4,11 @@ import type { AlarmState } from '$lib/alarms/state-machine';
 
 export type GlanceState = 'alarm' | 'warning' | 'caution' | 'stale' | 'normal';
 
-export const GLANCE_RANK: Record<GlanceState, number> = { alarm: 0, warning: 1, caution: 2, stale: 3, normal: 4 };
+/**
+ * Worst first. No data ranks with the warnings it is raised as (stale_data has warning
+ * priority), above a caution: a shaft nobody can see is worse than a sensor fault.
+ */
+export const GLANCE_RANK: Record<GlanceState, number> = { alarm: 0, warning: 1, stale: 2, caution: 3, normal: 4 };
 
 export const GLANCE_LABELS: Record<GlanceState, string> = {
 	alarm: 'Alarm',

@@ -29,6 +29,13 @@ describe('parseInstant', () => {
 		expect(parseInstant('2026-13-01T12:00:00Z')).toBeNull();
 		expect(parseInstant('1.5')).toBeNull();
 	});
+
+	it('refuses epoch ms a Date cannot hold (ECMA-262: ±8.64e15 ms)', () => {
+		expect(parseInstant('8640000000000000')).toBe(8.64e15);
+		expect(new Date(8.64e15).toISOString()).toBe('+275760-09-13T00:00:00.000Z');
+		expect(parseInstant('8640000000000001')).toBeNull();
+		expect(parseInstant('-8640000000000001')).toBeNull();
+	});
 });
 
 describe('autoBucket', () => {

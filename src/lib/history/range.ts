@@ -19,6 +19,19 @@ export type Bucket = (typeof BUCKETS)[number];
 
 export const BUCKET_MS: Record<Bucket, number> = { raw: 0, '1m': MINUTE_MS, '1h': HOUR_MS };
 
+/**
+ * The longest period one samples request may cover at each resolution, so no answer is larger
+ * than a few tens of thousands of points (a month of minutes: 44 640; five years of hours:
+ * 43 848): the answer is built and encoded on the thread that also serves the broker and
+ * the live view. Longer periods are for the CSV export, which streams.
+ */
+export const BUCKET_MAX_MS: Record<Bucket, number> = {
+	raw: RAW_MAX_MS,
+	'1m': 31 * DAY_MS,
+	'1h': 5 * 366 * DAY_MS
+};
+export const BUCKET_MAX_WORDS: Record<Bucket, string> = { raw: 'one day', '1m': '31 days', '1h': 'five years' };
+
 export const BUCKET_LABELS: Record<Bucket, string> = {
 	raw: 'every sample',
 	'1m': '1-minute buckets',
@@ -38,10 +51,13 @@ export function autoBucket(from: number, to: number): Bucket {
 	return '1h';
 }
 
-/** The finest resolution allowed for a span, for the message that refuses raw beyond a day. */
+/** The finest resolution allowed for a span, for the message that refuses a span too long for its bucket. */
 export function suggestedBucket(from: number, to: number): Bucket {
 	return to - from <= RAW_MAX_MS ? 'raw' : to - from <= 8 * DAY_MS ? '1m' : '1h';
 }
+
+/** the largest time value a JavaScript Date holds: 100 000 000 days either side of 1970 */
+const MAX_TIME_MS = 8.64e15;
 
 const ISO_WITH_OFFSET =
 	/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(?::\d{2}(?:[.,]\d{1,9})?)?(?:Z|[+-]\d{2}(?::?\d{2})?)$/i;
@@ -55,7 +71,8 @@ export function parseInstant(text: string): number | null {
 	const s = text.trim();
 	if (/^-?\d{1,16}$/.test(s)) {
 		const n = Number(s);
-		return Number.isSafeInteger(n) ? n : null;
+		// beyond ±8.64e15 ms a Date is invalid (ECMA-262 §21.4.1.1, "Time Values and Time Range")
+		return Number.isSafeInteger(n) && Math.abs(n) <= MAX_TIME_MS ? n : null;
 	}
 	if (!ISO_WITH_OFFSET.test(s)) return null;
 	const dt = DateTime.fromISO(s, { setZone: true });

@@ -5,14 +5,10 @@ import { checkCredentials } from '$lib/server/auth/sign-in';
 import { startSession } from '$lib/server/auth/session';
 import { login } from '$lib/schemas/users';
 import { fieldErrors } from '$lib/server/api/errors';
-
-/** Only same-site paths, so a crafted link cannot send a user elsewhere after sign-in. */
-function safeNext(next: string | null): string {
-	return next && next.startsWith('/') && !next.startsWith('//') ? next : '/';
-}
+import { safeNext } from '$lib/server/auth/next';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')));
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), url.origin));
 	return { demo: context().config.DEMO };
 };
 
@@ -34,6 +30,6 @@ export const actions: Actions = {
 			return fail(result.reason === 'throttled' ? 429 : 400, { email: values.email, errors });
 		}
 		await startSession(ctx.lucia, result.userId, event.cookies, event.url);
-		redirect(303, safeNext(event.url.searchParams.get('next')));
+		redirect(303, safeNext(event.url.searchParams.get('next'), event.url.origin));
 	}
 };

@@ -41,13 +41,16 @@ export function registerScope(param: string, resolver: Resolver) {
 
 /**
  * Checks every scoped parameter of a route. Returns false when any of them is
- * missing or belongs to a vessel the user may not see.
+ * missing, belongs to a vessel the user may not see, or belongs to another
+ * vessel than the route's other parameters (/vessels/1/shafts/7 with shaft 7
+ * on vessel 2 names nothing, so a form action there cannot act on either).
  */
 export async function routeInScope(
 	db: Kysely<Database>,
 	user: AppUser,
 	params: Partial<Record<string, string>>
 ): Promise<boolean> {
+	let routeVessel: number | undefined;
 	for (const [name, value] of Object.entries(params)) {
 		const resolve = SCOPE_RESOLVERS[name];
 		if (!resolve || value === undefined) continue;
@@ -55,6 +58,8 @@ export async function routeInScope(
 		if (!Number.isSafeInteger(id)) return false;
 		const vesselId = await resolve(db, id);
 		if (vesselId === undefined || !canSeeVessel(user, vesselId)) return false;
+		if (routeVessel !== undefined && vesselId !== routeVessel) return false;
+		routeVessel = vesselId;
 	}
 	return true;
 }

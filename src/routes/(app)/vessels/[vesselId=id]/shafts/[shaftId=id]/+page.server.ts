@@ -8,7 +8,7 @@ import { getShaft } from '$lib/server/fleet/repository';
 import { shaftLimits } from '$lib/server/alarms/limits';
 import { changedSettings, SETTING_KEYS, SHAFT_SETTING_KEYS, toFormValue } from '$lib/alarms/settings-form';
 import { outOfServiceBody } from '$lib/schemas/alarms';
-import { SHAFT_ALARM_TYPES } from '$lib/alarms/types';
+import { ALARM_SCOPE, SHAFT_ALARM_TYPES } from '$lib/alarms/types';
 
 export const load: PageServerLoad = async ({ params, locals }) => {
 	const user = pageUser(locals);
@@ -51,6 +51,9 @@ export const actions: Actions = {
 			reason: form.get('reason')
 		});
 		if (!parsed.success) return fail(400, { service: { errors: fieldErrors(parsed.error) } });
+		if (ALARM_SCOPE[parsed.data.type] !== 'shaft') {
+			return fail(400, { service: { errors: { type: 'a separator alarm: take it out of service on the separator page' } } });
+		}
 		await context().services.alarms!.setOutOfService(
 			{ vesselId: Number(params.vesselId), shaftId: Number(params.shaftId), type: parsed.data.type },
 			parsed.data.out_of_service,
