@@ -22,6 +22,7 @@ export async function healthReport(ctx: AppContext) {
 			rejected_total: stats?.rejected_total ?? 0,
 			duplicate_total: stats?.duplicate_total ?? 0,
 			rejected_by_reason: stats?.rejected_by_reason ?? {},
+			clock_steps_total: stats?.clock_steps_total ?? 0,
 			rate_per_s: stats?.rate() ?? 0,
 			write_lag_ms: Math.round(stats?.write_lag_ms ?? 0),
 			write_lag_p99_ms: Math.round(stats?.lagPercentile(99) ?? 0)

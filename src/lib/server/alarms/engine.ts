@@ -129,6 +129,7 @@ export class AlarmEngine {
 		const staleKey = instanceKey(e.shaft.vesselId, e.shaft.id, 'stale_data');
 		if (this.#open.get(staleKey)?.status.active) this.#clear(this.#open.get(staleKey)!, at, null);
 		if (!e.newest) return; // a replay of the past is stored, not judged again
+		if (e.clockStepped) this.#reanchor(e.shaft.id);
 		const facts = this.#shafts.get(e.shaft.id);
 		if (!facts) return;
 		const s = this.settings.forShaft(e.shaft.id);
@@ -164,6 +165,19 @@ export class AlarmEngine {
 			if (out === 'raise') this.#raise(facts.vesselId, facts.id, type, at, value, limit, suppressed);
 			else if (out === 'clear' && inst) this.#clear(inst, at, value);
 		}
+	}
+
+	/**
+	 * The gateway's clock went back: the shaft's timers, measured in its sample time, start again
+	 * from the new timestamps (an active alarm stays active; a hold under way starts over).
+	 */
+	#reanchor(shaftId: number) {
+		for (const type of SHAFT_ALARM_TYPES) {
+			const key = `${shaftId}|${type}`;
+			const d = this.#debouncers.get(key);
+			if (d) this.#debouncers.set(key, new Debouncer(d.delays, { active: d.active, trip_since: null, clear_since: null, last_at: null }));
+		}
+		this.#stuck.delete(shaftId);
 	}
 
 	onSeparator(e: SeparatorEvent) {

@@ -21,7 +21,8 @@ export async function loadLatest(db: Kysely<Database>, pipeline: IngestPipeline)
 				temp_c: row.temp_c,
 				shaft_rpm: row.shaft_rpm,
 				newest: true,
-				origin: 'live'
+				origin: 'live',
+				clockStepped: false
 			});
 		}
 	}

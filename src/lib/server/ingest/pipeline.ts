@@ -31,6 +31,22 @@ export interface SampleEvent {
 	newest: boolean;
 	/** 'import' for rows of an uploaded logger file: stored and rolled up, never judged as live */
 	origin: MessageOrigin;
+	/**
+	 * true on the sample at which the gateway's clock was found to have gone back: from it on,
+	 * this shaft's samples are judged by their new timestamps (judges re-anchor their timers)
+	 */
+	clockStepped: boolean;
+}
+
+/** A gateway clock that went back, as the admin page lists it. */
+export interface ClockStep {
+	vessel: string;
+	shaft: string;
+	/** server time it was recognised */
+	at: number;
+	/** the newest timestamp before, and the first of the new sequence */
+	from_ts: number;
+	to_ts: number;
 }
 
 export type MessageOrigin = 'live' | 'import';
@@ -78,6 +94,26 @@ export interface SeparatorLatest {
 	purge_valve: 'open' | 'closed' | null;
 }
 
+/**
+ * A gateway whose clock went back (an RTC reset, a correction of a clock that ran fast) sends
+ * samples older than the newest stored, as a replay does; but a replay arrives in a burst, far
+ * faster than its timestamps advance, and a clock that went back keeps pace with the server's.
+ * After this many samples, spanning at least CLOCK_STEP_SPAN_MS of arrival, whose arrival minus
+ * timestamp stays within CLOCK_STEP_JITTER_MS, the new timestamps are taken as the gateway's
+ * present, so its samples are judged again. (Thresholds: common practice for 1 Hz telemetry.)
+ */
+const CLOCK_STEP_RUN = 5;
+const CLOCK_STEP_SPAN_MS = 10_000;
+const CLOCK_STEP_JITTER_MS = 500;
+const CLOCK_STEPS_KEPT = 50;
+
+interface BackwardRun {
+	first_at: number;
+	last_ts: number;
+	offset: number;
+	count: number;
+}
+
 /** Rejected messages kept per batch; past that a flood is only counted. */
 const MAX_REJECTED_PER_BATCH = 200;
 const PAYLOAD_EXCERPT_BYTES = 1024;
@@ -94,6 +130,9 @@ export class IngestPipeline {
 	readonly latestSample = new Map<number, SampleEvent>();
 	readonly latestSeparator = new Map<number, SeparatorLatest>();
 	readonly gateway = new Map<number, { online: boolean; at: number; last_message_at: number | null }>();
+	/** the latest gateway clocks found to have gone back, newest first */
+	readonly clockSteps: ClockStep[] = [];
+	#backward = new Map<number, BackwardRun>();
 	#listeners: IngestListener[] = [];
 	#samples = new RowBuffer(SAMPLE_STRIDE);
 	#states = new RowBuffer(STATE_STRIDE, 256);
@@ -194,6 +233,13 @@ export class IngestPipeline {
 			const p = fastTelemetry(body as Record<string, unknown>) ?? validate(telemetryPayload, body);
 			this.#checkFuture(p.ts, now);
 			const previous = this.latestSample.get(shaft.id);
+			let newest = origin === 'live' && (!previous || p.ts > previous.ts);
+			let clockStepped = false;
+			if (newest) {
+				if (this.#backward.size) this.#backward.delete(shaft.id);
+			} else if (origin === 'live' && previous) {
+				clockStepped = newest = this.#clockWentBack(vessel.code, shaft, previous.ts, p.ts, now);
+			}
 			const event: SampleEvent = {
 				shaft,
 				ts: p.ts,
@@ -201,8 +247,9 @@ export class IngestPipeline {
 				supply_bar: p.supply_bar ?? null,
 				temp_c: p.temp_c ?? null,
 				shaft_rpm: p.shaft_rpm ?? null,
-				newest: origin === 'live' && (!previous || p.ts > previous.ts),
-				origin
+				newest,
+				origin,
+				clockStepped
 			};
 			this.#samples.push(shaft.id, p.ts, p.flow_lpm, p.supply_bar ?? NaN, p.temp_c ?? NaN, p.shaft_rpm ?? NaN);
 			if (origin === 'live') this.#touch(vessel.id, now);
@@ -240,6 +287,30 @@ export class IngestPipeline {
 			this.#statuses.push({ vessel_id: vessel.id, online: p.online, at });
 			this.#emit('gateway', { vesselId: vessel.id, online: p.online, at });
 		}
+	}
+
+	/** Whether this older-than-newest live sample completes a run that keeps pace with real time. */
+	#clockWentBack(vesselCode: string, shaft: ShaftEntry, newestTs: number, ts: number, now: number): boolean {
+		const offset = now - ts;
+		const run = this.#backward.get(shaft.id);
+		if (run && ts > run.last_ts && Math.abs(offset - run.offset) <= CLOCK_STEP_JITTER_MS) {
+			run.count++;
+			run.last_ts = ts;
+			run.offset = offset;
+		} else {
+			this.#backward.set(shaft.id, { first_at: now, last_ts: ts, offset, count: 1 });
+			return false;
+		}
+		if (run.count < CLOCK_STEP_RUN || now - run.first_at < CLOCK_STEP_SPAN_MS) return false;
+		this.#backward.delete(shaft.id);
+		this.clockSteps.unshift({ vessel: vesselCode, shaft: shaft.code, at: now, from_ts: newestTs, to_ts: ts });
+		this.clockSteps.length = Math.min(this.clockSteps.length, CLOCK_STEPS_KEPT);
+		this.stats.clock_steps_total++;
+		console.warn(
+			`[aftwater] ingest: the gateway clock of ${vesselCode}/${shaft.code} went back ` +
+				`from ${new Date(newestTs).toISOString()} to ${new Date(ts).toISOString()}; its samples are judged from the new time on`
+		);
+		return true;
 	}
 
 	#checkFuture(ts: number, now: number) {

@@ -5,6 +5,8 @@ export class IngestStats {
 	duplicate_total = 0;
 	rejected_total = 0;
 	rejected_by_reason: Record<string, number> = {};
+	/** gateway clocks found to have gone back (pipeline.ts, clockSteps) */
+	clock_steps_total = 0;
 	/** ms from the oldest message of the last committed batch arriving to its commit */
 	write_lag_ms = 0;
 	#lags: number[] = [];

@@ -17,6 +17,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 			page: Number.isSafeInteger(page) && page > 0 ? page : 1,
 			pageSize: PAGE_SIZE
 		}),
-		rejectedLogSize: ctx.config.REJECTED_LOG_SIZE
+		rejectedLogSize: ctx.config.REJECTED_LOG_SIZE,
+		clockSteps: [...(ctx.services.telemetry?.pipeline.clockSteps ?? [])]
 	};
 };
