@@ -97,6 +97,31 @@ describe('fleet stream', () => {
 	});
 });
 
+describe('access changes', () => {
+	it('a user taken off a vessel loses its open stream at once, and may not open it again', async () => {
+		const admin = await signIn(server.url, 'admin@demo.test');
+		const tech = await signIn(server.url, 'tech@demo.test'); // corrin-bay and hallow-tern
+		const { users } = await (await admin.get('/api/users')).json();
+		const techUser = users.find((u: { email: string }) => u.email === 'tech@demo.test');
+		const hallow = (await (await admin.get('/api/vessels')).json()).vessels.find((v: { code: string }) => v.code === 'hallow-tern').id;
+		const vesselStream = await live(`/api/vessels/${corrinBay}/live`, tech);
+		const fleetStream = await live('/api/live', tech);
+		await vesselStream.next((e) => e.event === 'snapshot', { since: 0 });
+		await fleetStream.next((e) => e.event === 'snapshot', { since: 0 });
+
+		const res = await admin.patch(`/api/users/${techUser.id}`, { vessel_ids: [hallow] });
+		expect(res.status).toBe(200);
+		await vesselStream.closed;
+		await fleetStream.closed;
+		expect((await live(`/api/vessels/${corrinBay}/live`, tech)).status).toBe(404);
+		const fleetAgain = await live('/api/live', tech);
+		const fleet = JSON.parse((await fleetAgain.next((e) => e.event === 'fleet', { timeoutMs: 5000, since: 0 })).data);
+		expect(Object.keys(fleet.vessels).map(Number)).toEqual([hallow]);
+		fleetAgain.close();
+		await admin.patch(`/api/users/${techUser.id}`, { vessel_ids: techUser.vessel_ids });
+	});
+});
+
 describe('across a restart', () => {
 	it('a stream resumes after the server restarts, filling the gap from the database', async () => {
 		const gw1 = await connectGateway(server.mqttPort, 'corrin-bay');

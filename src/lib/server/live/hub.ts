@@ -168,8 +168,35 @@ export class LiveHub {
 		}
 	}
 
+	/** open streams by the user they were opened for, so a change to the user can end them */
+	#byUser = new Map<string, Set<SseClient>>();
+
+	#own(userId: string, client: SseClient, onClose: () => void) {
+		let set = this.#byUser.get(userId);
+		if (!set) this.#byUser.set(userId, (set = new Set()));
+		set.add(client);
+		client.onClose = () => {
+			onClose();
+			set.delete(client);
+			if (!set.size && this.#byUser.get(userId) === set) this.#byUser.delete(userId);
+		};
+	}
+
+	/**
+	 * Ends every stream of a user whose access changed (disabled, role, vessels, password): the
+	 * browser reconnects by itself, and the reconnection is checked afresh (401 or 404 if it may
+	 * no longer see it), so nobody keeps receiving what they may no longer see.
+	 */
+	closeUser(userId: string): number {
+		const set = this.#byUser.get(userId);
+		if (!set) return 0;
+		const clients = [...set];
+		for (const c of clients) c.close();
+		return clients.length;
+	}
+
 	/** A client of one vessel: snapshot (or resume), then live messages. */
-	async openVessel(vesselId: number, windowMs: number, lastEventId: number | null): Promise<SseClient> {
+	async openVessel(userId: string, vesselId: number, windowMs: number, lastEventId: number | null): Promise<SseClient> {
 		const client = new SseClient();
 		const ch = this.#channel(vesselId);
 		client.send(RETRY);
@@ -187,19 +214,19 @@ export class LiveHub {
 		}
 		this.#flushChannel(ch); // what arrived during the queries goes out now, in order
 		ch.clients.add(client);
-		client.onClose = () => ch.clients.delete(client);
+		this.#own(userId, client, () => ch.clients.delete(client));
 		return client;
 	}
 
 	/** A client of the fleet overview: the active alarms, then a summary every second. */
-	async openFleet(vessels: number[] | 'all'): Promise<SseClient> {
+	async openFleet(userId: string, vessels: number[] | 'all'): Promise<SseClient> {
 		const client = new SseClient();
 		client.send(RETRY);
 		const alarms = await listAlarms(this.ctx.db, { vesselIds: vessels, state: 'active' });
 		client.send(sseMessage('snapshot', { alarms }));
 		const entry: FleetClient = { client, vessels };
 		this.#fleet.add(entry);
-		client.onClose = () => this.#fleet.delete(entry);
+		this.#own(userId, client, () => this.#fleet.delete(entry));
 		return client;
 	}
 

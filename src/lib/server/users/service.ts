@@ -106,6 +106,8 @@ export async function updateUser(ctx: AppContext, actor: Actor, id: string, inpu
 	if (input.disabled !== undefined) set.disabled_at = input.disabled ? Date.now() : null;
 	if (Object.keys(set).length) await ctx.db.updateTable('users').set(set).where('id', '=', id).execute();
 	if (input.disabled) await ctx.lucia.invalidateUserSessions(id);
+	// open live streams were checked when they opened: end them, their reconnection is checked anew
+	if (input.disabled !== undefined || input.role !== undefined || input.vessel_ids) ctx.services.live?.closeUser(id);
 	await audit(ctx.db, actor, {
 		action: 'user.update',
 		entity: 'user',
@@ -123,6 +125,7 @@ export async function setPassword(ctx: AppContext, actor: Actor, userId: string,
 		.where('id', '=', userId)
 		.execute();
 	await ctx.lucia.invalidateUserSessions(userId);
+	ctx.services.live?.closeUser(userId);
 	await audit(ctx.db, actor, { action: 'user.password', entity: 'user', entityId: userId });
 }
 

@@ -13,5 +13,5 @@ export const GET = route(async (event) => {
 	const user = userOf(event);
 	const hub = context().services.live;
 	if (!hub) throw new ApiError(503, 'unavailable', 'live data is not running');
-	return sseResponse(await hub.openFleet(visibleVesselIds(user)));
+	return sseResponse(await hub.openFleet(user.id, visibleVesselIds(user)));
 });
