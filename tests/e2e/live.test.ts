@@ -74,9 +74,13 @@ describe('live watch', () => {
 		const row = (p: typeof chief.page) => p.locator('[data-alarm-id][data-type="low_flow"]').first();
 		await row(fleet.page).waitFor({ timeout: 5_000 });
 		expect(await row(fleet.page).getAttribute('data-state')).toBe('unacknowledged');
+		await row(chief.page).getByPlaceholder('What was done (optional)').fill('Standby pump started by hand');
 		await row(chief.page).getByRole('button', { name: 'Acknowledge' }).click();
 		await expect.poll(() => row(fleet.page).getAttribute('data-state'), { timeout: 5_000 }).toBe('acknowledged');
 		await expect.poll(() => row(fleet.page).getByTestId('alarm-state').textContent()).toBe('Acknowledged');
+		// what was done is kept with the acknowledgement, for everyone who reads the alarm's history
+		await row(fleet.page).getByRole('button', { name: 'History' }).click();
+		await expect.poll(() => row(fleet.page).locator('ol').textContent(), { timeout: 5_000 }).toContain('“Standby pump started by hand”');
 
 		await chief.page.screenshot({ path: `${ARTIFACTS}/vessel-light.png`, fullPage: true });
 		flow = 110; // the standby pump has started
