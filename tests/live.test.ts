@@ -92,6 +92,13 @@ describe('fleet stream', () => {
 		}
 		const alarm = JSON.parse((await sse.next((e) => e.event === 'alarm' && e.data.includes('"low_flow"'), { since: mark })).data);
 		expect(alarm.alarm).toMatchObject({ vessel_id: corrinBay, shaft_id: portShaft, type: 'low_flow', state: 'unacknowledged' });
+		// the list can be asked for one ISA-18.2 state
+		const ids = async (state: string) =>
+			((await (await chief.get(`/api/alarms?state=${state}`)).json()).alarms as { id: number }[]).map((a) => a.id);
+		expect(await ids('unacknowledged')).toContain(alarm.alarm.id);
+		expect(await ids('shelved')).not.toContain(alarm.alarm.id);
+		expect(await ids('active')).toContain(alarm.alarm.id);
+		expect((await chief.get('/api/alarms?state=asleep')).status).toBe(400);
 		sse.close();
 		gw.end();
 	});

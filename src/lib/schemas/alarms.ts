@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { ALARM_TYPES } from '$lib/alarms/types';
-import { MAX_SHELVE_S } from '$lib/alarms/state-machine';
+import { ALARM_STATES, MAX_SHELVE_S } from '$lib/alarms/state-machine';
 
 const comment = z.string().trim().max(1000);
 
@@ -25,7 +25,8 @@ export const outOfServiceBody = z.object({
 });
 
 export const alarmListQuery = z.object({
-	state: z.enum(['active', 'all']).default('active'),
+	/** active (not yet normal), all, or one ISA-18.2 state (e.g. unacknowledged, shelved) */
+	state: z.enum(['active', 'all', ...ALARM_STATES]).default('active'),
 	vessel: z.string().max(40).optional(),
 	from: z.string().optional(),
 	to: z.string().optional(),

@@ -5,10 +5,12 @@ import type { AppContext } from '../context';
 import { flowMargin } from '$lib/flow';
 import { getShaft } from '../fleet/repository';
 import { toAlarmView, type AlarmView } from './view';
+import type { AlarmState } from '$lib/alarms/state-machine';
 
 export interface AlarmQuery {
 	vesselIds: number[] | 'all';
-	state: 'active' | 'all';
+	/** active (not normal), all, or alarms now in one ISA-18.2 state */
+	state: 'active' | 'all' | AlarmState;
 	vesselId?: number;
 	shaftId?: number;
 	from?: number;
@@ -17,7 +19,7 @@ export interface AlarmQuery {
 }
 
 /**
- * Active alarms (not normal) or all of them, for the vessels given. Active ones
+ * Active alarms (not normal), all of them, or those in one state, for the vessels given. Active ones
  * come unacknowledged first, then by priority, newest first — what needs an
  * answer stays on top.
  */
@@ -30,6 +32,7 @@ export async function listAlarms(db: Kysely<Database>, q: AlarmQuery): Promise<A
 		.$if(q.vesselId !== undefined, (qb) => qb.where('vessel_id', '=', q.vesselId!))
 		.$if(q.shaftId !== undefined, (qb) => qb.where('shaft_id', '=', q.shaftId!))
 		.$if(q.state === 'active', (qb) => qb.where('ended_at', 'is', null))
+		.$if(q.state !== 'active' && q.state !== 'all', (qb) => qb.where('state', '=', q.state as AlarmState))
 		.$if(q.from !== undefined, (qb) => qb.where((eb) => eb.or([eb('ended_at', 'is', null), eb('ended_at', '>=', q.from!)])))
 		.$if(q.to !== undefined, (qb) => qb.where('raised_at', '<', q.to!))
 		.orderBy(sql`case when ended_at is null and acknowledged = 0 and state in ('unacknowledged', 'returned_unacknowledged') then 0 else 1 end`)

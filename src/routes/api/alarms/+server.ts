@@ -6,7 +6,7 @@ import { listAlarms } from '$lib/server/alarms/queries';
 import { alarmListQuery } from '$lib/schemas/alarms';
 import { parseInstant } from '$lib/server/api/time';
 
-/** Alarms of the vessels the caller may see: active (not normal, the default) or all. */
+/** Alarms of the vessels the caller may see: active (not normal, the default), all, or in one ISA-18.2 state. */
 export const GET = route(async (event) => {
 	const user = userOf(event);
 	const q = readQuery(event.url, alarmListQuery);
