@@ -187,12 +187,9 @@ export class LiveHub {
 	 * browser reconnects by itself, and the reconnection is checked afresh (401 or 404 if it may
 	 * no longer see it), so nobody keeps receiving what they may no longer see.
 	 */
-	closeUser(userId: string): number {
-		const set = this.#byUser.get(userId);
-		if (!set) return 0;
-		const clients = [...set];
-		for (const c of clients) c.close();
-		return clients.length;
+	closeUser(userId: string): void {
+		// a copy: each close removes its client from the set
+		for (const c of [...(this.#byUser.get(userId) ?? [])]) c.close();
 	}
 
 	/** A client of one vessel: snapshot (or resume), then live messages. */
