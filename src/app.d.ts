@@ -11,6 +11,8 @@ declare global {
 		interface Locals {
 			user: AppUser | null;
 			session: Session | null;
+			/** the API token a Bearer request came with */
+			tokenId: number | null;
 		}
 	}
 }

@@ -5,7 +5,7 @@ import { startApp } from '$lib/server/app';
 import { loadConfig } from '$lib/server/config';
 import { context, maybeContext } from '$lib/server/context';
 import { readSession } from '$lib/server/auth/session';
-import { userIdForToken } from '$lib/server/auth/tokens';
+import { liveToken } from '$lib/server/auth/tokens';
 import { routeInScope } from '$lib/server/auth/guard';
 import * as users from '$lib/server/users/repository';
 import { DEMO_USERS } from '$lib/server/demo/fleet';
@@ -37,13 +37,17 @@ function isPublic(path: string): boolean {
 const authenticate: Handle = async ({ event, resolve }) => {
 	event.locals.user = null;
 	event.locals.session = null;
+	event.locals.tokenId = null;
 	const { db, lucia } = context();
 
 	const header = event.request.headers.get('authorization');
 	if (header?.startsWith('Bearer ')) {
-		const userId = await userIdForToken(db, header.slice(7).trim());
-		const row = userId ? await users.findById(db, userId) : undefined;
-		if (row && row.disabled_at === null) event.locals.user = await users.toAppUser(db, row);
+		const token = await liveToken(db, header.slice(7).trim());
+		const row = token ? await users.findById(db, token.userId) : undefined;
+		if (token && row && row.disabled_at === null) {
+			event.locals.user = await users.toAppUser(db, row);
+			event.locals.tokenId = token.tokenId;
+		}
 	} else {
 		const { session, user } = await readSession(lucia, event.cookies, event.url);
 		if (session && user && user.disabled_at === null) {

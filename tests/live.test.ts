@@ -127,6 +127,41 @@ describe('access changes', () => {
 		fleetAgain.close();
 		await admin.patch(`/api/users/${techUser.id}`, { vessel_ids: techUser.vessel_ids });
 	});
+	it('signing out ends the streams of that session only; revoking a token ends the streams opened with it', async () => {
+		const desk = await signIn(server.url, 'chief@demo.test');
+		const tablet = await signIn(server.url, 'chief@demo.test');
+		const deskStream = await live(`/api/vessels/${corrinBay}/live`, desk);
+		const tabletStream = await live(`/api/vessels/${corrinBay}/live`, tablet);
+		await deskStream.next((e) => e.event === 'snapshot', { since: 0 });
+		await tabletStream.next((e) => e.event === 'snapshot', { since: 0 });
+		let tabletEnded = false;
+		void tabletStream.closed.then(() => (tabletEnded = true));
+
+		const signedOutCookie = desk.cookie;
+		expect((await desk.post('/api/auth/logout')).status).toBe(200);
+		await deskStream.closed;
+		expect((await live(`/api/vessels/${corrinBay}/live`, { ...desk, cookie: signedOutCookie })).status).toBe(401);
+		// the other session of the same user keeps its stream: still open once a fleet summary has come
+		const fleetTablet = await live('/api/live', tablet);
+		await fleetTablet.next((e) => e.event === 'fleet', { timeoutMs: 5000, since: 0 });
+		expect(tabletEnded).toBe(false);
+		tabletStream.close();
+		fleetTablet.close();
+
+		const { token, id } = await (await tablet.post('/api/me/tokens', { name: 'bridge display' })).json();
+		const byToken = await openSse(`${server.url}/api/live`, { authorization: `Bearer ${token}` });
+		const byCookie = await live('/api/live', tablet);
+		await byToken.next((e) => e.event === 'snapshot', { since: 0 });
+		await byCookie.next((e) => e.event === 'snapshot', { since: 0 });
+		let cookieEnded = false;
+		void byCookie.closed.then(() => (cookieEnded = true));
+		expect((await tablet.del(`/api/me/tokens/${id}`)).status).toBe(200);
+		await byToken.closed;
+		expect((await openSse(`${server.url}/api/live`, { authorization: `Bearer ${token}` })).status).toBe(401);
+		await byCookie.next((e) => e.event === 'fleet', { timeoutMs: 5000, since: byCookie.events.length });
+		expect(cookieEnded).toBe(false);
+		byCookie.close();
+	});
 });
 
 describe('across a restart', () => {

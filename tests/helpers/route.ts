@@ -34,7 +34,7 @@ export function routeEvent(init: RouteEventInit = {}): RequestEvent {
 		request,
 		url: new URL(url),
 		params: Object.fromEntries(Object.entries(init.params ?? {}).map(([k, v]) => [k, String(v)])),
-		locals: { user: init.user ?? null, session: null },
+		locals: { user: init.user ?? null, session: null, tokenId: null },
 		getClientAddress: () => init.clientAddress ?? '192.0.2.1'
 	} as unknown as RequestEvent;
 }

@@ -7,6 +7,7 @@ import type { UnitSystem } from '$lib/types';
 import { audit, type Actor } from '../audit';
 import type { AppContext } from '../context';
 import { issueToken, revokeToken } from '../auth/tokens';
+import { tokenCredential } from '../live/access';
 
 export async function setUnits(ctx: AppContext, actor: Actor, userId: string, units: UnitSystem) {
 	const before = await ctx.db
@@ -41,6 +42,7 @@ export async function createApiToken(ctx: AppContext, actor: Actor, userId: stri
 /** false when the token is not the user's or is already revoked. */
 export async function revokeApiToken(ctx: AppContext, actor: Actor, userId: string, id: number) {
 	if (!(await revokeToken(ctx.db, userId, id))) return false;
+	ctx.services.live?.closeCredential(tokenCredential(id)); // its open streams end with it
 	await audit(ctx.db, actor, { action: 'token.revoke', entity: 'api_token', entityId: id });
 	return true;
 }

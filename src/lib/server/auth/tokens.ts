@@ -28,8 +28,8 @@ export async function issueToken(db: Kysely<Database>, userId: string, name: str
 	return { id: row.id, token };
 }
 
-/** The user id behind a live token, or null. */
-export async function userIdForToken(db: Kysely<Database>, token: string): Promise<string | null> {
+/** The live token presented and the user behind it, or null. */
+export async function liveToken(db: Kysely<Database>, token: string): Promise<{ tokenId: number; userId: string } | null> {
 	if (!token.startsWith(PREFIX) || token.length > 100) return null;
 	const row = await db
 		.selectFrom('api_tokens')
@@ -39,7 +39,7 @@ export async function userIdForToken(db: Kysely<Database>, token: string): Promi
 		.executeTakeFirst();
 	if (!row) return null;
 	await db.updateTable('api_tokens').set({ last_used_at: Date.now() }).where('id', '=', row.id).execute();
-	return row.user_id;
+	return { tokenId: row.id, userId: row.user_id };
 }
 
 export async function listTokens(db: Kysely<Database>, userId: string) {

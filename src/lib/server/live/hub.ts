@@ -19,6 +19,17 @@ const FLEET_EVERY_MS = 1_000;
 /** how long a vessel's recent messages are kept for resuming streams */
 const RING_MS = 120_000;
 const BACKFILL_MARGIN_MS = 5_000;
+/** setTimeout's longest delay (about 24.8 days); a later expiry is checked then */
+const MAX_TIMER_MS = 2 ** 31 - 1;
+
+/** Who opened a stream and with what: so a change to either can end it. */
+export interface StreamAccess {
+	userId: string;
+	/** `session:<id>` or `token:<id>` (see streamAccess) */
+	credential: string;
+	/** epoch ms the session expires, or null for an API token (valid until revoked) */
+	expiresAt: number | null;
+}
 
 interface Channel {
 	clients: Set<SseClient>;
@@ -168,17 +179,32 @@ export class LiveHub {
 		}
 	}
 
-	/** open streams by the user they were opened for, so a change to the user can end them */
+	/** open streams by the user and by the credential (session or API token) they were opened with */
 	#byUser = new Map<string, Set<SseClient>>();
+	#byCredential = new Map<string, Set<SseClient>>();
 
-	#own(userId: string, client: SseClient, onClose: () => void) {
-		let set = this.#byUser.get(userId);
-		if (!set) this.#byUser.set(userId, (set = new Set()));
-		set.add(client);
+	#own(access: StreamAccess, client: SseClient, onClose: () => void) {
+		const index = (map: Map<string, Set<SseClient>>, key: string) => {
+			let set = map.get(key);
+			if (!set) map.set(key, (set = new Set()));
+			set.add(client);
+			return () => {
+				set.delete(client);
+				if (!set.size && map.get(key) === set) map.delete(key);
+			};
+		};
+		const unindex = [index(this.#byUser, access.userId), index(this.#byCredential, access.credential)];
+		// a stream may not outlive its session: it ends when the session would have expired, and the
+		// reconnection is checked afresh (a session renewed meanwhile by other requests passes)
+		const expiry =
+			access.expiresAt === null
+				? null
+				: setTimeout(() => client.close(), Math.min(Math.max(access.expiresAt - Date.now(), 0), MAX_TIMER_MS));
+		expiry?.unref();
 		client.onClose = () => {
+			if (expiry) clearTimeout(expiry);
 			onClose();
-			set.delete(client);
-			if (!set.size && this.#byUser.get(userId) === set) this.#byUser.delete(userId);
+			for (const u of unindex) u();
 		};
 	}
 
@@ -192,8 +218,13 @@ export class LiveHub {
 		for (const c of [...(this.#byUser.get(userId) ?? [])]) c.close();
 	}
 
+	/** Ends the streams opened with one credential: a session signed out, an API token revoked. */
+	closeCredential(credential: string): void {
+		for (const c of [...(this.#byCredential.get(credential) ?? [])]) c.close();
+	}
+
 	/** A client of one vessel: snapshot (or resume), then live messages. */
-	async openVessel(userId: string, vesselId: number, windowMs: number, lastEventId: number | null): Promise<SseClient> {
+	async openVessel(access: StreamAccess, vesselId: number, windowMs: number, lastEventId: number | null): Promise<SseClient> {
 		const client = new SseClient();
 		const ch = this.#channel(vesselId);
 		client.send(RETRY);
@@ -211,19 +242,19 @@ export class LiveHub {
 		}
 		this.#flushChannel(ch); // what arrived during the queries goes out now, in order
 		ch.clients.add(client);
-		this.#own(userId, client, () => ch.clients.delete(client));
+		this.#own(access, client, () => ch.clients.delete(client));
 		return client;
 	}
 
 	/** A client of the fleet overview: the active alarms, then a summary every second. */
-	async openFleet(userId: string, vessels: number[] | 'all'): Promise<SseClient> {
+	async openFleet(access: StreamAccess, vessels: number[] | 'all'): Promise<SseClient> {
 		const client = new SseClient();
 		client.send(RETRY);
 		const alarms = await listAlarms(this.ctx.db, { vesselIds: vessels, state: 'active' });
 		client.send(sseMessage('snapshot', { alarms }));
 		const entry: FleetClient = { client, vessels };
 		this.#fleet.add(entry);
-		this.#own(userId, client, () => this.#fleet.delete(entry));
+		this.#own(access, client, () => this.#fleet.delete(entry));
 		return client;
 	}
 

@@ -3,6 +3,7 @@ import { ApiError } from '$lib/server/api/errors';
 import { context } from '$lib/server/context';
 import { visibleVesselIds } from '$lib/server/auth/guard';
 import { sseResponse } from '$lib/server/live/sse';
+import { streamAccess } from '$lib/server/live/access';
 
 /**
  * Server-sent events for the fleet the caller may see: `snapshot` (active
@@ -13,5 +14,5 @@ export const GET = route(async (event) => {
 	const user = userOf(event);
 	const hub = context().services.live;
 	if (!hub) throw new ApiError(503, 'unavailable', 'live data is not running');
-	return sseResponse(await hub.openFleet(user.id, visibleVesselIds(user)));
+	return sseResponse(await hub.openFleet(streamAccess(event), visibleVesselIds(user)));
 });

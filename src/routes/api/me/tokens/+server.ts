@@ -1,9 +1,10 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import { readJson, route, userOf } from '$lib/server/api/handler';
-import { audit, actorOf } from '$lib/server/audit';
+import { actorOf } from '$lib/server/audit';
 import { context } from '$lib/server/context';
-import { issueToken, listTokens } from '$lib/server/auth/tokens';
+import { listTokens } from '$lib/server/auth/tokens';
+import { createApiToken } from '$lib/server/admin/my-account';
 
 export const GET = route(async (event) => ({ tokens: await listTokens(context().db, userOf(event).id) }));
 
@@ -11,8 +12,6 @@ export const GET = route(async (event) => ({ tokens: await listTokens(context().
 export const POST = route(async (event) => {
 	const user = userOf(event);
 	const { name } = await readJson(event.request, z.object({ name: z.string().trim().min(1).max(80) }));
-	const ctx = context();
-	const { id, token } = await issueToken(ctx.db, user.id, name);
-	await audit(ctx.db, actorOf(user), { action: 'token.issue', entity: 'api_token', entityId: id, details: { name } });
-	return json({ id, name, token }, { status: 201, headers: { 'cache-control': 'no-store' } });
+	const created = await createApiToken(context(), actorOf(user), user.id, name);
+	return json(created, { status: 201, headers: { 'cache-control': 'no-store' } });
 });

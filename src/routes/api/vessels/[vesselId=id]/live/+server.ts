@@ -1,8 +1,9 @@
 import { z } from 'zod';
-import { readQuery, route, userOf } from '$lib/server/api/handler';
+import { readQuery, route } from '$lib/server/api/handler';
 import { ApiError } from '$lib/server/api/errors';
 import { context } from '$lib/server/context';
 import { sseResponse } from '$lib/server/live/sse';
+import { streamAccess } from '$lib/server/live/access';
 
 const query = z.object({
 	/** minutes of history in the first snapshot */
@@ -22,6 +23,6 @@ export const GET = route(async (event) => {
 	const lastEventId = header && /^\d+$/.test(header) ? Number(header) : (q.last_event_id ?? null);
 	const hub = context().services.live;
 	if (!hub) throw new ApiError(503, 'unavailable', 'live data is not running');
-	const client = await hub.openVessel(userOf(event).id, Number(event.params.vesselId), q.window * 60_000, lastEventId);
+	const client = await hub.openVessel(streamAccess(event), Number(event.params.vesselId), q.window * 60_000, lastEventId);
 	return sseResponse(client);
 });
