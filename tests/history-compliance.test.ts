@@ -6,6 +6,9 @@
  * their arithmetic; the last test proves rollup-based == raw-based.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { constantMinimum } from '$lib/minimums';
+import { SYSTEM } from '$lib/server/audit';
+import { updateShaft } from '$lib/server/fleet/service';
 import { shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { coverageFromPoints, HOUR_MS, MINUTE_MS, sharesOf } from '$lib/compliance';
 import { coverageOf, shaftCompliance } from '$lib/server/history/compliance';
@@ -45,7 +48,7 @@ const compliance = (h: ShaftHistory, from: number, to: number) =>
 		to,
 		now: Date.now(),
 		gapMs: h.gapMs,
-		minFlowLpm: h.minFlowLpm,
+		minimums: h.minimums,
 		items: true
 	});
 
@@ -228,7 +231,7 @@ describe('hand-worked compliance', () => {
 			to: now + HOUR_MS,
 			now,
 			gapMs: port.gapMs,
-			minFlowLpm: port.minFlowLpm
+			minimums: port.minimums
 		});
 		expect(c.to).toBe(now);
 		expect(c.requested_to).toBe(now + HOUR_MS);
@@ -290,7 +293,7 @@ describe('rollup-based compliance equals raw-based', () => {
 			periods.push([a, a + 1 + Math.floor(r2() * r2() * 3 * HOUR_MS)]);
 		}
 		for (const [from, to] of periods) {
-			const got = await coverageOf(app.ctx.db, main.shaft.id, from, to, main.gapMs, min);
+			const got = await coverageOf(app.ctx.db, main.shaft.id, from, to, main.gapMs, constantMinimum(min));
 			const want = coverageFromPoints(raw, from, to, main.gapMs);
 			expect([from, to, got.covered_ms, got.below_ms]).toEqual([
 				from,
@@ -386,5 +389,62 @@ describe('history reads', () => {
 		);
 		expect(all[0].supply_bar).toEqual({ min: 1.5, max: 1.5, mean: 1.5 });
 		expect(flowOnly[0]).toEqual({ ...all[0], supply_bar: null, temp_c: null, shaft_rpm: null });
+	});
+});
+
+describe('a minimum changed', () => {
+	it('samples are judged by the minimum in force when measured; the answer lists both minimums', async () => {
+		// lakeline-wren port: 260 mm × 0.15 = 39 L/min; corrected to 300 mm → 45 L/min. 42 L/min is
+		// above the first and below the second.
+		let h = await shaft('lakeline-wren', 'port');
+		expect(h.minFlowLpm).toBeCloseTo(39, 9);
+		const a0 = Math.floor((Date.now() - 20 * MINUTE_MS) / 1000) * 1000;
+		const a1 = a0 + 10 * MINUTE_MS;
+		await ingest(h, everySecond(a0, a1, () => 42));
+
+		await updateShaft(app.ctx, SYSTEM, h.shaft.id, { diameter_mm: 300 });
+		const changes = await app.ctx.db.selectFrom('shaft_minimum_changes').selectAll().where('shaft_id', '=', h.shaft.id).execute();
+		expect(changes).toHaveLength(1);
+		expect([changes[0].from_lpm, changes[0].to_lpm, changes[0].changed_by]).toEqual([39, 45, 'system']);
+		const c = changes[0].changed_at;
+		for (let i = 0; i < 100 && app.ctx.services.telemetry!.registry.shaft(h.shaft.id)!.minFlowLpm !== 45; i++) {
+			await new Promise((r) => setTimeout(r, 20)); // the registry reloads on config.changed
+		}
+		h = await shaft('lakeline-wren', 'port');
+		expect(h.minFlowLpm).toBe(45);
+
+		// after the change: 60 samples at 42, now below; and a late sample among the earlier ones,
+		// whose minutes the writer recomputes — still against 39 L/min
+		const b0 = Math.ceil((c + 1) / 1000) * 1000;
+		await ingest(h, everySecond(b0, b0 + 59_000, () => 42));
+		await ingest(h, [{ ts: a0 + 5 * MINUTE_MS + 500, flow_lpm: 42 }]);
+
+		const to = b0 + 60_000;
+		const got = await shaftCompliance(app.ctx.db, {
+			shaftId: h.shaft.id,
+			vesselId: h.vessel.id,
+			from: a0,
+			to,
+			now: to + MINUTE_MS,
+			gapMs: h.gapMs,
+			minimums: h.minimums
+		});
+		// below: b0 … b0+59 s held sample to sample = 59 s (the last sample has no successor yet, so its
+		// second is unknown); nothing of the 10 minutes before the change
+		expect(got.seconds_below_min).toBe(59);
+		expect(got.min_flow_lpm).toBe(45);
+		expect(got.minimums).toEqual([
+			{ from_ts: a0, min_flow_lpm: 39 },
+			{ from_ts: c, min_flow_lpm: 45 }
+		]);
+		// the rollups agree with the raw rows judged the same way
+		const raw = readSamples(app.ctx.sqlite, h.shaft.id, a0 - h.gapMs, to + h.gapMs);
+		const direct = coverageFromPoints(
+			raw.map((p) => ({ ts: p.ts, below: p.flow_lpm < (p.ts >= c ? 45 : 39) })),
+			a0,
+			to,
+			h.gapMs
+		);
+		expect(got.seconds_below_min).toBe(direct.below_ms / 1000);
 	});
 });

@@ -4,6 +4,7 @@
  * history-http.test.ts). Imported rows go through the real ingest pipeline
  * into the real SQLite file.
  */
+import { constantMinimum } from '$lib/minimums';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUser, shaftIds, startTestApp, type TestApp } from './helpers/app';
 import { routeEvent } from './helpers/route';
@@ -245,7 +246,7 @@ describe('naive times in a stated zone, bad rows, duplicates', () => {
 			Date.UTC(2026, 2, 29),
 			Date.UTC(2026, 2, 30),
 			oslo.gapMs,
-			oslo.minFlowLpm
+			oslo.minimums
 		);
 		expect([cov.covered_ms, cov.below_ms, cov.flow_min]).toEqual([25_000, 0, 68.5]);
 
@@ -354,8 +355,8 @@ describe('CSV export', () => {
 		expect(out.import.rows_imported).toBe(rows.length);
 		expect(await stored(lark, from, to)).toEqual(await stored(oslo, from, to));
 		// and its rollups say the same: same samples, same coverage (the two minimums differ, so compare coverage only)
-		const a = await coverageOf(app.ctx.db, oslo.shaft.id, from, to, oslo.gapMs, 0);
-		const b = await coverageOf(app.ctx.db, lark.shaft.id, from, to, lark.gapMs, 0);
+		const a = await coverageOf(app.ctx.db, oslo.shaft.id, from, to, oslo.gapMs, constantMinimum(0));
+		const b = await coverageOf(app.ctx.db, lark.shaft.id, from, to, lark.gapMs, constantMinimum(0));
 		expect(b.covered_ms).toBe(a.covered_ms);
 		expect(a.covered_ms).toBeLessThan(to - from); // the gap is not covered
 

@@ -14,6 +14,7 @@
  * (--reuse keeps a previous run's file, --keep leaves the file behind,
  * --days=N builds N days instead of 365 to try it out).
  */
+import { constantMinimum } from '$lib/minimums';
 import { existsSync, rmSync, statSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import v8 from 'node:v8';
@@ -260,7 +261,7 @@ function generate(sqlite: Sqlite) {
 function checkAgainstWriter(sqlite: Sqlite): string[] {
 	const writer = new TelemetryWriter(sqlite);
 	// one shaft per window, so each window is the newest data of its shaft, as live ingest writes it
-	writer.configure([0, 1, 2].map((i) => [CHECK_SHAFT + i, MIN_FLOW, GAP_MS]));
+	writer.configure([0, 1, 2].map((i) => [CHECK_SHAFT + i, constantMinimum(MIN_FLOW), GAP_MS]));
 	const windows = [
 		START + 14 * HOUR_MS - 30 * MINUTE_MS + 40 * DAY, // across a daily dip
 		START + 3 * DAY + 35 * DAY - 30 * MINUTE_MS, // across a weekly outage (day 3 of week 5)
@@ -420,7 +421,7 @@ async function main() {
 		}[]
 	).map((r) => ({ ts: r.ts, below: r.flow_lpm < MIN_FLOW }));
 	const want = coverageFromPoints(dayRaw, dayFrom, dayFrom + DAY, GAP_MS);
-	const got = await coverageOf(db, SHAFT, dayFrom, dayFrom + DAY, GAP_MS, MIN_FLOW);
+	const got = await coverageOf(db, SHAFT, dayFrom, dayFrom + DAY, GAP_MS, constantMinimum(MIN_FLOW));
 	const complianceAgrees = got.covered_ms === want.covered_ms && got.below_ms === want.below_ms;
 	log(
 		`compliance of a day from rollups ${complianceAgrees ? 'equals' : 'DIFFERS FROM'} the raw-based figure (${got.covered_ms} / ${got.below_ms} ms vs ${want.covered_ms} / ${want.below_ms})`
@@ -487,7 +488,7 @@ async function main() {
 			to: yTo,
 			now: Date.now(),
 			gapMs: GAP_MS,
-			minFlowLpm: MIN_FLOW
+			minimums: constantMinimum(MIN_FLOW)
 		})
 	);
 	const yearly = await shaftCompliance(db, {
@@ -497,7 +498,7 @@ async function main() {
 		to: yTo,
 		now: Date.now(),
 		gapMs: GAP_MS,
-		minFlowLpm: MIN_FLOW
+		minimums: constantMinimum(MIN_FLOW)
 	});
 	console.log(
 		`  (the year: ${(yearly.share_at_or_above_min * 100).toFixed(3)} % at or above the minimum, ${(yearly.share_below_min * 100).toFixed(3)} % below, ${(yearly.share_unknown * 100).toFixed(3)} % unknown)`

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { constantMinimum } from '../minimums';
 import fc from 'fast-check';
 import { bucketOf, coverageFromPoints, HOUR_MS, MINUTE_MS, splitInterval } from '../compliance';
 import {
@@ -113,7 +114,7 @@ describe('edgePiece (hand-worked)', () => {
 		//   00:01:05–00:01:20 the 80 L/min sample: 15 s covered, below 90
 		//   00:01:20–00:01:30 the 95 L/min sample (next at 00:01:40, 20 s ≤ 30 s): 10 s covered, above
 		// → 30 s covered, 15 s below; lowest inside is 80 at 00:01:05 (70 is after the edge)
-		expect(edgePiece(points, { from: s(60), to: s(90) }, gap, min)).toEqual({
+		expect(edgePiece(points, { from: s(60), to: s(90) }, gap, constantMinimum(min))).toEqual({
 			covered_ms: 30_000,
 			below_ms: 15_000,
 			flow_min: 80,
@@ -127,7 +128,7 @@ describe('edgePiece (hand-worked)', () => {
 			{ ts: s(0), flow_lpm: 100 },
 			{ ts: s(60), flow_lpm: 100 }
 		];
-		expect(edgePiece(points, { from: s(20), to: s(40) }, gap, min)).toEqual({
+		expect(edgePiece(points, { from: s(20), to: s(40) }, gap, constantMinimum(min))).toEqual({
 			covered_ms: 0,
 			below_ms: 0,
 			flow_min: null,
@@ -225,7 +226,7 @@ describe('plan + rollups == all raw samples (property)', () => {
 								[...(before ? [before] : []), ...inside, ...(after ? [after] : [])],
 								span,
 								gap,
-								min
+								constantMinimum(min)
 							);
 						}),
 						...plan.minutes.flatMap((span) => sumRange(m, span, MINUTE_MS)),

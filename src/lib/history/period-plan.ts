@@ -13,6 +13,7 @@
  * two minutes of raw samples.
  */
 import { bucketOf, coverageFromPoints, HOUR_MS, MINUTE_MS, type Coverage } from '../compliance';
+import { minimumAt, type MinimumSpan } from '../minimums';
 
 export interface Span {
 	from: number;
@@ -117,10 +118,10 @@ export function edgePiece(
 	points: RawPoint[],
 	span: Span,
 	gapMs: number,
-	minFlowLpm: number
+	minimums: readonly MinimumSpan[]
 ): PieceSummary {
 	const cov = coverageFromPoints(
-		points.map((p) => ({ ts: p.ts, below: p.flow_lpm < minFlowLpm })),
+		points.map((p) => ({ ts: p.ts, below: p.flow_lpm < minimumAt(minimums, p.ts) })),
 		span.from,
 		span.to,
 		gapMs

@@ -86,7 +86,13 @@ export interface ShaftCompliance {
 	to: number;
 	requested_to: number;
 	period_s: number;
+	/** the minimum in force at the end of the period */
 	min_flow_lpm: number;
+	/**
+	 * every minimum in force during the period, oldest first, the first from `from`: more than one when
+	 * the shaft's minimum was changed meanwhile; each sample is judged by the one in force when measured
+	 */
+	minimums: { from_ts: number; min_flow_lpm: number }[];
 	stale_after_s: number;
 	share_at_or_above_min: number;
 	share_below_min: number;

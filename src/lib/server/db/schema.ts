@@ -60,6 +60,15 @@ export interface ShaftsTable {
 	created_at: EpochMs;
 }
 
+/** a change of a shaft's minimum flow, so history is judged by the minimum then in force */
+export interface ShaftMinimumChangesTable {
+	shaft_id: number;
+	changed_at: EpochMs;
+	from_lpm: number;
+	to_lpm: number;
+	changed_by: string | null;
+}
+
 export interface VesselMembersTable {
 	user_id: string;
 	vessel_id: number;
@@ -110,6 +119,7 @@ export interface Database
 	sessions: SessionsTable;
 	vessels: VesselsTable;
 	shafts: ShaftsTable;
+	shaft_minimum_changes: ShaftMinimumChangesTable;
 	vessel_members: VesselMembersTable;
 	gateways: GatewaysTable;
 	api_tokens: ApiTokensTable;

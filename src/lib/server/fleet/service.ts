@@ -70,8 +70,19 @@ export async function createShaft(ctx: AppContext, actor: Actor, vesselId: numbe
 export async function updateShaft(ctx: AppContext, actor: Actor, id: number, input: ShaftUpdate) {
 	const before = await fleet.getShaft(ctx.db, id);
 	if (!before) throw notFound('shaft');
-	await fleet.updateShaft(ctx.db, id, input);
-	await audit(ctx.db, actor, { action: 'shaft.update', entity: 'shaft', entityId: id, vesselId: before.vessel_id, details: diff(before, input) });
+	await ctx.db.transaction().execute(async (trx) => {
+		await fleet.updateShaft(trx, id, input);
+		const after = (await fleet.getShaft(trx, id))!;
+		// a new minimum applies from now on; what was measured before stays judged by the old one
+		if (after.min_flow_lpm !== before.min_flow_lpm) {
+			await trx
+				.insertInto('shaft_minimum_changes')
+				.values({ shaft_id: id, changed_at: Date.now(), from_lpm: before.min_flow_lpm, to_lpm: after.min_flow_lpm, changed_by: actor.name })
+				.onConflict((oc) => oc.columns(['shaft_id', 'changed_at']).doUpdateSet({ to_lpm: after.min_flow_lpm, changed_by: actor.name }))
+				.execute();
+		}
+		await audit(trx, actor, { action: 'shaft.update', entity: 'shaft', entityId: id, vesselId: before.vessel_id, details: diff(before, input) });
+	});
 	ctx.events.emit('config.changed', { vesselId: before.vessel_id });
 	return (await fleet.getShaft(ctx.db, id))!;
 }

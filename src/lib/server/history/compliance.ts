@@ -6,6 +6,7 @@
  */
 import { sql, type Kysely } from 'kysely';
 import { sharesOf } from '$lib/compliance';
+import { minimumAt, minimumsDuring, type MinimumSpan } from '$lib/minimums';
 import { summariseAlarms, summarisePurges } from '$lib/history/alarm-time';
 import {
 	combinePieces,
@@ -90,7 +91,7 @@ export async function coverageOf(
 	from: number,
 	to: number,
 	gapMs: number,
-	minFlowLpm: number
+	minimums: readonly MinimumSpan[]
 ): Promise<CoverageResult> {
 	const plan = planPeriod(from, to);
 	const pieces: PieceSummary[] = [];
@@ -108,7 +109,7 @@ export async function coverageOf(
 	for (const span of plan.raw) {
 		const points = await edgePoints(db, shaftId, span);
 		read.raw_rows += points.length;
-		pieces.push(edgePiece(points, span, gapMs, minFlowLpm));
+		pieces.push(edgePiece(points, span, gapMs, minimums));
 	}
 	return { ...combinePieces(pieces), read };
 }
@@ -120,7 +121,8 @@ export interface ComplianceInput {
 	to: number;
 	now: number;
 	gapMs: number;
-	minFlowLpm: number;
+	/** the shaft's minimums over time (ShaftHistory.minimums): each sample is judged by the one then in force */
+	minimums: readonly MinimumSpan[];
 	/** include the alarm and purge lists (for charts and reports) */
 	items?: boolean;
 }
@@ -181,10 +183,10 @@ export async function shaftCompliance(
 	db: Kysely<Database>,
 	input: ComplianceInput
 ): Promise<ShaftCompliance> {
-	const { shaftId, vesselId, from, now, gapMs, minFlowLpm } = input;
+	const { shaftId, vesselId, from, now, gapMs, minimums } = input;
 	// time that has not happened yet is not unknown: it is not in the period
 	const to = Math.max(from, Math.min(input.to, now));
-	const cov = await coverageOf(db, shaftId, from, to, gapMs, minFlowLpm);
+	const cov = await coverageOf(db, shaftId, from, to, gapMs, minimums);
 	const shares = sharesOf(cov, to - from);
 	const alarms = await alarmsIn(db, vesselId, shaftId, from, to);
 	const purges = await purgesIn(db, vesselId, from, to);
@@ -194,7 +196,8 @@ export async function shaftCompliance(
 		to,
 		requested_to: input.to,
 		period_s: (to - from) / 1000,
-		min_flow_lpm: minFlowLpm,
+		min_flow_lpm: minimumAt(minimums, to - 1),
+		minimums: minimumsDuring(minimums, from, to),
 		stale_after_s: gapMs / 1000,
 		share_at_or_above_min: shares.share_at_or_above_min,
 		share_below_min: shares.share_below_min,

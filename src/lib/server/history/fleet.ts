@@ -50,7 +50,7 @@ export async function fleetCompliance(
 					to,
 					now,
 					gapMs: h.gapMs,
-					minFlowLpm: h.minFlowLpm
+					minimums: h.minimums
 				})
 			});
 		}

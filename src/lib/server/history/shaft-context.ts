@@ -4,6 +4,7 @@
  * writer builds rollups with), and its low-margin warning band.
  */
 import { DEFAULT_ALARM_SETTINGS } from '$lib/alarms/settings';
+import { constantMinimum, type MinimumSpan } from '$lib/minimums';
 import type { AppContext } from '../context';
 import { getShaft, getVesselRow, toVessel, type Shaft, type Vessel } from '../fleet/repository';
 import { DEFAULT_STALE_AFTER_S } from '../ingest/registry';
@@ -12,6 +13,8 @@ export interface ShaftHistory {
 	shaft: Shaft;
 	vessel: Vessel;
 	minFlowLpm: number;
+	/** the minimums in force over time, oldest first (see $lib/minimums) */
+	minimums: MinimumSpan[];
 	/** a gap between samples longer than this is unknown time, ms */
 	gapMs: number;
 	/** the low-margin warning band above the minimum, as a fraction of it */
@@ -38,6 +41,7 @@ export function historyOf(ctx: AppContext, shaft: Shaft, vessel: Vessel): ShaftH
 		shaft,
 		vessel,
 		minFlowLpm: entry?.minFlowLpm ?? shaft.min_flow_lpm,
+		minimums: entry?.minimums ?? constantMinimum(shaft.min_flow_lpm),
 		gapMs: entry?.gapMs ?? DEFAULT_STALE_AFTER_S * 1000,
 		marginWarning: settings.margin_warning,
 		topic: `${ctx.config.MQTT_TOPIC_PREFIX}/${vessel.code}/${shaft.code}/telemetry`

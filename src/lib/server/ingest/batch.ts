@@ -2,6 +2,7 @@
  * What the ingest pipeline hands to the writer thread: flat numeric arrays
  * (transferred, not copied, to the worker) plus a few small lists.
  */
+import type { MinimumSpan } from '$lib/minimums';
 
 /** Fields of one sample row in `samples`: shaft_id, ts, flow_lpm, supply_bar, temp_c, shaft_rpm (NaN = absent) */
 export const SAMPLE_STRIDE = 6;
@@ -51,7 +52,8 @@ export interface WriteResult {
 }
 
 /** Per shaft: the minimum flow in force and the gap beyond which time is unknown. */
-export type ShaftRollupConfig = [shaftId: number, minFlowLpm: number, gapMs: number];
+/** the minimums over time (oldest first, the last one in force now) and the stale threshold */
+export type ShaftRollupConfig = [shaftId: number, minimums: MinimumSpan[], gapMs: number];
 
 export type ToWriter =
 	| { type: 'config'; shafts: ShaftRollupConfig[] }

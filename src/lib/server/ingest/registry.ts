@@ -4,13 +4,17 @@
  */
 import type { Kysely } from 'kysely';
 import { minimumFlow } from '$lib/flow';
+import { minimumTimeline, type MinimumChange, type MinimumSpan } from '$lib/minimums';
 import type { Database } from '../db/schema';
 
 export interface ShaftEntry {
 	id: number;
 	code: string;
 	vesselId: number;
+	/** the minimum flow now in force */
 	minFlowLpm: number;
+	/** the minimums in force over time, oldest first (the last is minFlowLpm) */
+	minimums: MinimumSpan[];
 	/** a gap in samples longer than this is unknown time (the stale threshold) */
 	gapMs: number;
 }
@@ -36,6 +40,17 @@ export class Registry {
 			.selectFrom('shafts')
 			.select(['id', 'code', 'vessel_id', 'diameter_mm', 'min_flow_factor_lpm_per_mm'])
 			.execute();
+		const changes = new Map<number, MinimumChange[]>();
+		for (const c of await db
+			.selectFrom('shaft_minimum_changes')
+			.select(['shaft_id', 'changed_at', 'from_lpm', 'to_lpm'])
+			.orderBy('shaft_id')
+			.orderBy('changed_at')
+			.execute()) {
+			let list = changes.get(c.shaft_id);
+			if (!list) changes.set(c.shaft_id, (list = []));
+			list.push(c);
+		}
 		const next = new Map<string, VesselEntry>();
 		const byId = new Map<number, VesselEntry>();
 		const shaftMap = new Map<number, ShaftEntry>();
@@ -47,11 +62,13 @@ export class Registry {
 		for (const s of shafts) {
 			const vessel = byId.get(s.vessel_id);
 			if (!vessel) continue;
+			const minFlowLpm = minimumFlow(s.diameter_mm, s.min_flow_factor_lpm_per_mm);
 			const entry: ShaftEntry = {
 				id: s.id,
 				code: s.code,
 				vesselId: s.vessel_id,
-				minFlowLpm: minimumFlow(s.diameter_mm, s.min_flow_factor_lpm_per_mm),
+				minFlowLpm,
+				minimums: minimumTimeline(changes.get(s.id) ?? [], minFlowLpm),
 				gapMs: this.staleAfterS(s.id) * 1000
 			};
 			vessel.shafts.set(s.code, entry);

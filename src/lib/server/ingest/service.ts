@@ -33,7 +33,7 @@ export async function startTelemetry(ctx: AppContext): Promise<TelemetryService>
 	const writer = new WriterClient(config.DATABASE_PATH);
 	await writer.ready;
 	const configureWriter = () =>
-		writer.configure(registry.shafts().map((s) => [s.id, s.minFlowLpm, s.gapMs]));
+		writer.configure(registry.shafts().map((s) => [s.id, s.minimums, s.gapMs]));
 	configureWriter();
 	const pipeline = new IngestPipeline(config, registry, writer);
 	await loadLatest(db, pipeline);

@@ -21,6 +21,7 @@ import {
 	MINUTE_MS,
 	splitInterval
 } from '../../compliance';
+import { constantMinimum, minimumAt, type MinimumSpan } from '../../minimums';
 import type { Sqlite } from '../db/connection';
 import { SAMPLE_STRIDE, STATE_STRIDE, type ShaftRollupConfig, type WriteBatch, type WriteResult } from './batch';
 import { compiler } from './sql-compiler';
@@ -55,6 +56,7 @@ function addStat(s: Stat, v: number) {
 }
 
 const DEFAULT_GAP_MS = 30_000;
+const UNCONFIGURED: ShaftConfig = { minFlow: 0, since: -Infinity, minimums: constantMinimum(0), gapMs: DEFAULT_GAP_MS };
 
 /** NaN marks an absent reading in a batch (batch.ts); the column is NULL */
 const nul = (v: number) => (Number.isNaN(v) ? null : v);
@@ -132,8 +134,20 @@ function separatorUpsert(table: 'separator_rollup_1m' | 'separator_rollup_1h') {
 		.compile().sql;
 }
 
+interface ShaftConfig {
+	/** the minimum in force now, and since when */
+	minFlow: number;
+	since: number;
+	minimums: MinimumSpan[];
+	gapMs: number;
+}
+
+/** below the minimum in force when it was measured (MinimumSpan, $lib/minimums) */
+const isBelow = (cfg: ShaftConfig, ts: number, flow: number) =>
+	flow < (ts >= cfg.since ? cfg.minFlow : minimumAt(cfg.minimums, ts));
+
 export class TelemetryWriter {
-	#config = new Map<number, { minFlow: number; gapMs: number }>();
+	#config = new Map<number, ShaftConfig>();
 	/** newest stored sample per shaft: its ts and whether its flow was below the minimum */
 	#newest = new Map<number, { ts: number; below: boolean }>();
 	#s;
@@ -236,18 +250,21 @@ export class TelemetryWriter {
 	}
 
 	configure(shafts: ShaftRollupConfig[]) {
-		for (const [id, minFlow, gapMs] of shafts) this.#config.set(id, { minFlow, gapMs });
+		for (const [id, minimums, gapMs] of shafts) {
+			const now = minimums[minimums.length - 1];
+			this.#config.set(id, { minFlow: now.min_flow_lpm, since: now.from_ts, minimums, gapMs });
+		}
 	}
 
-	#cfg(shaft: number) {
-		return this.#config.get(shaft) ?? { minFlow: 0, gapMs: DEFAULT_GAP_MS };
+	#cfg(shaft: number): ShaftConfig {
+		return this.#config.get(shaft) ?? UNCONFIGURED;
 	}
 
 	#newestOf(shaft: number) {
 		let last = this.#newest.get(shaft);
 		if (!last) {
 			const row = this.#s.newest.get(shaft) as { ts: number; flow_lpm: number } | undefined;
-			last = row ? { ts: row.ts, below: row.flow_lpm < this.#cfg(shaft).minFlow } : { ts: -Infinity, below: false };
+			last = row ? { ts: row.ts, below: isBelow(this.#cfg(shaft), row.ts, row.flow_lpm) } : { ts: -Infinity, below: false };
 			this.#newest.set(shaft, last);
 		}
 		return last;
@@ -294,7 +311,7 @@ export class TelemetryWriter {
 			}
 			stored++;
 			const cfg = this.#cfg(shaft);
-			const below = flow < cfg.minFlow;
+			const below = isBelow(cfg, ts, flow);
 			for (const [map, size] of levels) {
 				const a = accOf(map, shaft, bucketOf(ts, size));
 				a.n++;
@@ -358,7 +375,8 @@ export class TelemetryWriter {
 
 	/** Recomputes covered/below of the minute buckets a late sample can touch, then their hours. */
 	#recomputeCoverage(shaft: number, lateTs: number[]) {
-		const { gapMs, minFlow } = this.#cfg(shaft);
+		const cfg = this.#cfg(shaft);
+		const { gapMs } = cfg;
 		const minutes = new Set<number>();
 		for (const t of lateTs) {
 			for (let b = bucketOf(t - gapMs, MINUTE_MS); b < t + gapMs; b += MINUTE_MS) minutes.add(b);
@@ -367,7 +385,7 @@ export class TelemetryWriter {
 		for (const b of minutes) {
 			const points = (
 				this.#s.points.all(shaft, b - gapMs, b + MINUTE_MS + gapMs) as { ts: number; flow_lpm: number }[]
-			).map((p) => ({ ts: p.ts, below: p.flow_lpm < minFlow }));
+			).map((p) => ({ ts: p.ts, below: isBelow(cfg, p.ts, p.flow_lpm) }));
 			const cov = coverageFromPoints(points, b, b + MINUTE_MS, gapMs);
 			this.#s.coverage1m.run(shaft, b, cov.covered_ms, cov.below_ms);
 			hours.add(bucketOf(b, HOUR_MS));

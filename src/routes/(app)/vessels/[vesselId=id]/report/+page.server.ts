@@ -31,7 +31,7 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 				to: period.to,
 				now,
 				gapMs: h.gapMs,
-				minFlowLpm: h.minFlowLpm,
+				minimums: h.minimums,
 				items: true
 			}),
 			records: await recordsSummary(ctx.db, shaft.id)

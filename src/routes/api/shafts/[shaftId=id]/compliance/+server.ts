@@ -16,7 +16,7 @@ export const GET = route(async (event) => {
 		to: q.to,
 		now: Date.now(),
 		gapMs: h.gapMs,
-		minFlowLpm: h.minFlowLpm,
+		minimums: h.minimums,
 		items: q.items !== '0'
 	});
 });
