@@ -225,6 +225,40 @@ describe('who may publish and subscribe', () => {
 		gw.end(true);
 	});
 
+	it('a client id in use by another gateway is refused, and the connection that holds it stays up', async () => {
+		const owner = await connectGateway(app.mqttPort, 'corrin-bay', { clientId: 'bridge-link' });
+		let ownerClosed = false;
+		owner.on('close', () => (ownerClosed = true));
+		// MQTT 3.1.1 §3.2.2.3: CONNACK 0x02, identifier rejected
+		await expect(connectGateway(app.mqttPort, 'hallow-tern', { clientId: 'bridge-link' })).rejects.toThrow(/Identifier rejected/i);
+		await new Promise((r) => setTimeout(r, 200));
+		expect(ownerClosed).toBe(false);
+		await owner.publishAsync(telemetry('corrin-bay', 'port'), JSON.stringify({ ts: Date.now(), flow_lpm: 80 }), { qos: 1 });
+		// the same gateway may take its own id over (a reconnect after a half-open link)
+		const again = await connectGateway(app.mqttPort, 'corrin-bay', { clientId: 'bridge-link' });
+		await waitFor(() => ownerClosed, { what: 'the old connection of the same gateway to close' });
+		again.end(true);
+		owner.end(true);
+	});
+
+	it('a persistent session left by one gateway delivers nothing of its vessel to another', async () => {
+		const first = await connectGateway(app.mqttPort, 'hallow-tern', { clientId: 'shared-session', clean: false });
+		await first.subscribeAsync(`${PREFIX}/hallow-tern/separator/command`, { qos: 1 });
+		await first.endAsync();
+		// queued for the offline session (QoS 1), and one more after the other has taken the id
+		await app.ctx.services.telemetry!.publish(`${PREFIX}/hallow-tern/separator/command`, '{"id":"c0","action":"purge","duration_s":5}');
+		const got: string[] = [];
+		const other = await connectGateway(app.mqttPort, 'corrin-bay', { clientId: 'shared-session', clean: false, onMessage: (topic) => got.push(topic) });
+		await app.ctx.services.telemetry!.publish(`${PREFIX}/hallow-tern/separator/command`, '{"id":"c1","action":"purge","duration_s":5}');
+		// its own command topic still reaches it
+		await other.subscribeAsync(`${PREFIX}/corrin-bay/separator/command`, { qos: 1 });
+		await app.ctx.services.telemetry!.publish(`${PREFIX}/corrin-bay/separator/command`, '{"id":"c2","action":"purge","duration_s":5}');
+		await waitFor(() => got.length > 0, { what: 'its own command' });
+		await new Promise((r) => setTimeout(r, 200));
+		expect(got).toEqual([`${PREFIX}/corrin-bay/separator/command`]);
+		other.end(true);
+	});
+
 	it('gateway status (retained and as last will) is stored', async () => {
 		const gw = await connectGateway(app.mqttPort, 'lakeline-wren', { will: true });
 		await gw.publishAsync(`${PREFIX}/lakeline-wren/gateway/status`, '{"online":true}', { qos: 1, retain: true });

@@ -8,7 +8,14 @@ export const PREFIX = 'aftwater/v1';
 export async function connectGateway(
 	port: number,
 	vessel: string,
-	options: { password?: string; clientId?: string; will?: boolean } = {}
+	options: {
+		password?: string;
+		clientId?: string;
+		will?: boolean;
+		clean?: boolean;
+		/** listening from before the CONNACK, so messages of a restored session are seen too */
+		onMessage?: (topic: string, payload: Buffer) => void;
+	} = {}
 ): Promise<MqttClient> {
 	const client = mqtt.connect(`mqtt://127.0.0.1:${port}`, {
 		username: gatewayUsername(vessel),
@@ -16,10 +23,12 @@ export async function connectGateway(
 		clientId: options.clientId ?? `test-${vessel}-${Math.random().toString(36).slice(2, 8)}`,
 		reconnectPeriod: 0,
 		connectTimeout: 5_000,
+		clean: options.clean ?? true,
 		will: options.will
 			? { topic: `${PREFIX}/${vessel}/gateway/status`, payload: Buffer.from('{"online":false}'), qos: 1, retain: true }
 			: undefined
 	});
+	if (options.onMessage) client.on('message', options.onMessage);
 	await new Promise<void>((resolve, reject) => {
 		client.once('connect', () => resolve());
 		client.once('error', reject);

@@ -4,7 +4,11 @@
  * gateways with their vessel's credentials, the server's own MQTT.js client
  * with an internal credential. A gateway may publish only under
  * {prefix}/{its vessel}/ (never to its command topic) and subscribe only to
- * its own command topic; anything else is refused and logged.
+ * its own command topic; anything else is refused and logged. A client id
+ * in use by another identity is refused (else the newcomer would take the
+ * connection over, MQTT 3.1.1 §3.1.4, and set off the other's last will), and
+ * a gateway is only ever delivered its own vessel's messages, even from a
+ * persistent session left by another.
  */
 import net from 'node:net';
 import { timingSafeEqual } from 'node:crypto';
@@ -44,6 +48,15 @@ function authError(): AuthenticateError {
 	return err;
 }
 
+function idInUse(): AuthenticateError {
+	const err = new Error('client id in use by another gateway') as AuthenticateError;
+	err.returnCode = 2; // MQTT 3.1.1 §3.2.2.3: 0x02 identifier rejected
+	return err;
+}
+
+const sameIdentity = (a: Identity | undefined, b: Identity) =>
+	a?.kind === b.kind && (a.kind === 'server' || (b.kind === 'gateway' && a.vesselId === b.vesselId));
+
 function sameSecret(a: string, b: Buffer) {
 	const left = Buffer.from(a);
 	return left.length === b.length && timingSafeEqual(left, b);
@@ -54,6 +67,7 @@ export async function startEmbeddedBroker(options: BrokerOptions): Promise<Embed
 	const log = options.log ?? ((line: string) => console.warn(`[aftwater] mqtt: ${line}`));
 	const identities = new WeakMap<Client, Identity>();
 	const clients = new Set<Client>();
+	const byId = new Map<string, Client>();
 	// Refusals are logged, but at most a few a second, so a misbehaving gateway cannot fill the log.
 	let logged = 0;
 	const refuse = (line: string) => {
@@ -68,8 +82,17 @@ export async function startEmbeddedBroker(options: BrokerOptions): Promise<Embed
 		drainTimeout: 10_000, // ms: a client that stops reading is dropped, not waited on forever
 		connectTimeout: 10_000,
 		authenticate(client, username, password, done) {
+			// a connected client with this id, signed in as somebody else, keeps its connection
+			const takesOver = (identity: Identity) => {
+				const current = byId.get(client.id);
+				return current !== undefined && current !== client && !sameIdentity(identities.get(current), identity);
+			};
 			if (username === INTERNAL_USERNAME) {
 				if (password && sameSecret(options.internalPassword, password)) {
+					if (takesOver({ kind: 'server' })) {
+						refuse(`refused internal sign-in with client id ${client.id}, in use by a gateway`);
+						return done(idInUse(), false);
+					}
 					identities.set(client, { kind: 'server' });
 					return done(null, true);
 				}
@@ -82,7 +105,12 @@ export async function startEmbeddedBroker(options: BrokerOptions): Promise<Embed
 						refuse(`refused sign-in of "${String(username).slice(0, 60)}" (client ${client.id})`);
 						return done(authError(), false);
 					}
-					identities.set(client, { kind: 'gateway', ...identity });
+					const gateway: Identity = { kind: 'gateway', ...identity };
+					if (takesOver(gateway)) {
+						refuse(`refused sign-in of ${identity.username}: client id ${String(client.id).slice(0, 60)} is in use by another`);
+						return done(idInUse(), false);
+					}
+					identities.set(client, gateway);
 					done(null, true);
 				},
 				(err) => {
@@ -112,10 +140,23 @@ export async function startEmbeddedBroker(options: BrokerOptions): Promise<Embed
 			}
 			refuse(`refused subscription to "${subscription.topic.slice(0, 120)}" by ${id?.kind === 'gateway' ? id.username : client.id}`);
 			done(null, null); // MQTT 3.1.1 §3.9.3: SUBACK return code 0x80, failure
+		},
+		authorizeForward(client, packet) {
+			const id = identities.get(client);
+			if (id?.kind === 'server') return packet;
+			// a gateway gets its own command topic only (a session restored from another's is not its own)
+			if (id?.kind === 'gateway' && packet.topic === `${prefix}/${id.vesselCode}/separator/command`) return packet;
+			return null;
 		}
 	});
-	aedes.on('clientReady', (c) => clients.add(c));
-	aedes.on('clientDisconnect', (c) => clients.delete(c));
+	aedes.on('clientReady', (c) => {
+		clients.add(c);
+		byId.set(c.id, c);
+	});
+	aedes.on('clientDisconnect', (c) => {
+		clients.delete(c);
+		if (byId.get(c.id) === c) byId.delete(c.id);
+	});
 	// A broken client connection is the client's problem, not the server's.
 	aedes.on('clientError', () => {});
 	aedes.on('connectionError', () => {});
