@@ -63,10 +63,30 @@ const authenticate: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+/**
+ * A request that changes something and rides on the session cookie must come from this site.
+ * SvelteKit checks the origin of form posts only; a JSON API call with no body (purge now, rotate
+ * credentials, sign out) would otherwise be open to any page on the same site (another port of
+ * the ship's server) that the browser sends the SameSite=Lax cookie with. Callers with an API
+ * token, and programs that send no Origin, are not browsers riding a cookie.
+ */
+function crossSite(event: Parameters<Handle>[0]['event']): boolean {
+	if (SAFE_METHODS.has(event.request.method) || !event.locals.session) return false;
+	const origin = event.request.headers.get('origin');
+	if (origin !== null) return origin !== event.url.origin;
+	const site = event.request.headers.get('sec-fetch-site');
+	return site === 'cross-site' || site === 'same-site';
+}
+
 const protect: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
 	const isApi = path.startsWith('/api/');
 	const user = event.locals.user;
+	if (isApi && crossSite(event)) {
+		return json({ error: { code: 'forbidden', message: 'cross-site request refused' } }, { status: 403 });
+	}
 	if (!isPublic(path) && !user) {
 		if (isApi) {
 			return json({ error: { code: 'unauthorized', message: 'sign in first' } }, { status: 401 });

@@ -278,6 +278,9 @@ describe('settings', () => {
 		const res = await bearer.get('/api/me');
 		expect(res.status).toBe(200);
 		expect((await res.json()).user.email).toBe('integrator@example.org');
+		// a token cannot mint more tokens (a stolen one would outlive its revocation)
+		const minted = await bearer.post('/api/me/tokens', { name: 'another' });
+		expect(minted.status).toBe(403);
 		// only a hash is kept, and the settings page lists it by name without the token
 		const stored = db.prepare('select token_hash from api_tokens where id = ?').get(id) as {
 			token_hash: string;

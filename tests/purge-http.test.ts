@@ -150,6 +150,21 @@ describe('GET and PUT /api/vessels/{id}/purge-schedule', () => {
 describe('POST /api/vessels/{id}/purge and GET …/purges', () => {
 	let commandId: string;
 
+	it('a purge asked with the session cookie from another site is refused (403) and sends nothing', async () => {
+		const before = await (await tech.get(`/api/vessels/${ids['hallow-tern']}/purges`)).json();
+		const hallow = `/api/vessels/${ids['hallow-tern']}/purge`;
+		for (const headers of [{ origin: 'http://192.168.1.20:8080' }, { 'sec-fetch-site': 'same-site' }, { 'sec-fetch-site': 'cross-site' }]) {
+			const res = await tech.request('POST', hallow, undefined, headers);
+			expect(res.status).toBe(403);
+			expect((await res.json()).error.code).toBe('forbidden');
+		}
+		const after = await (await tech.get(`/api/vessels/${ids['hallow-tern']}/purges`)).json();
+		expect(after.purges).toEqual(before.purges);
+		// from the app's own origin the request goes through (to the duration check)
+		const own = await tech.request('POST', hallow, { duration_s: 4 }, { origin: new URL(server.url).origin });
+		expect(own.status).toBe(422);
+	});
+
 	it('purge now answers 201 with the pending command; a second one at once is 409', async () => {
 		const res = await chief.post(`/api/vessels/${ids['skerry-lark']}/purge`, { duration_s: 12 });
 		expect(res.status).toBe(201);
