@@ -217,6 +217,34 @@ describe('vessels and shafts', () => {
 	});
 });
 
+describe('PATCH /api/vessels/{id} and /api/shafts/{id}', () => {
+	it('an empty change answers the item unchanged; a misspelt field is named (422), and nothing is changed', async () => {
+		const vessel = ids['skerry-lark'];
+		const shaft = shaftRow(vessel, 'port')!;
+		for (const path of [`/api/vessels/${vessel}`, `/api/shafts/${shaft.id}`]) {
+			const empty = await admin.patch(path, {});
+			expect(empty.status).toBe(200);
+			const typo = await admin.patch(path, { nam: 'Typo' });
+			expect(typo.status).toBe(422);
+			expect(JSON.stringify((await typo.json()).error)).toContain('nam');
+		}
+		expect(vesselRow('skerry-lark')!.name).not.toBe('Typo');
+		expect(shaftRow(vessel, 'port')!.name).toBe(shaft.name);
+	});
+
+	it('a corrected diameter changes the minimum, and the change is kept with who made it', async () => {
+		const vessel = ids['skerry-lark'];
+		const shaft = shaftRow(vessel, 'stbd')!;
+		const res = await admin.patch(`/api/shafts/${shaft.id}`, { diameter_mm: shaft.diameter_mm + 10 });
+		expect(res.status).toBe(200);
+		// 0.15 L/min per mm (the default factor) × 10 mm more = 1.5 L/min more
+		expect((await res.json()).shaft.min_flow_lpm).toBeCloseTo(0.15 * (shaft.diameter_mm + 10), 9);
+		const change = db.prepare('select * from shaft_minimum_changes where shaft_id = ?').get(shaft.id) as Record<string, any>;
+		expect(change).toMatchObject({ changed_by: 'admin@demo.test' });
+		expect(change.to_lpm - change.from_lpm).toBeCloseTo(1.5, 9);
+	});
+});
+
 describe('gateway credentials', () => {
 	let gateway: MqttClient | undefined;
 	afterAll(() => {

@@ -134,6 +134,7 @@ export async function createVessel(db: Kysely<Database>, input: VesselCreate): P
 }
 
 export async function updateVessel(db: Kysely<Database>, id: number, input: VesselUpdate) {
+	if (!Object.keys(input).length) return; // nothing to set: SQL has no empty SET
 	await db.updateTable('vessels').set(input).where('id', '=', id).execute();
 }
 
@@ -155,5 +156,6 @@ export async function createShaft(
 }
 
 export async function updateShaft(db: Kysely<Database>, id: number, input: ShaftUpdate) {
+	if (!Object.keys(input).length) return; // nothing to set: SQL has no empty SET
 	await db.updateTable('shafts').set(input).where('id', '=', id).execute();
 }

@@ -15,6 +15,6 @@ export const GET = route(async ({ params }) => {
 
 export const PATCH = route(async (event) => {
 	const user = requirePermission(event, 'fleet.configure');
-	const input = await readJson(event.request, shaftUpdate);
+	const input = await readJson(event.request, shaftUpdate.strict()) // a misspelt field is named, not dropped;
 	return { shaft: await updateShaft(context(), actorOf(user), Number(event.params.shaftId), input) };
 });

@@ -14,6 +14,6 @@ export const GET = route(async ({ params }) => {
 
 export const PATCH = route(async (event) => {
 	const user = requirePermission(event, 'fleet.configure');
-	const input = await readJson(event.request, vesselUpdate);
+	const input = await readJson(event.request, vesselUpdate.strict()) // a misspelt field is named, not dropped;
 	return { vessel: await updateVessel(context(), actorOf(user), Number(event.params.vesselId), input) };
 });
