@@ -120,6 +120,23 @@ describe('upload checks', () => {
 		).toEqual([]);
 	});
 
+	it('a file csv-parse cannot split is a 422 with the reason, and leaves no import behind', async () => {
+		const res = await upload(chief, oslo, 'open-quote.csv', 'ts,flow_lpm\n"2026-01-01T00:00:00Z,100\n2026-01-01T00:00:01Z,101\n');
+		expect(res.status).toBe(422);
+		const { error } = await res.json();
+		expect(error.code).toBe('unreadable_file');
+		expect(error.message).toMatch(/quote/i);
+		const rows = await app.ctx.db.selectFrom('logger_imports').select('id').where('filename', '=', 'open-quote.csv').execute();
+		expect(rows).toEqual([]);
+	});
+
+	it('a row whose epoch time no date can hold is a bad row named by its line, not a failure', async () => {
+		// 8.7e15 ms is past the last instant a Date can hold, 8.64e15 (ECMA-262 §21.4.1.1)
+		const body = await uploaded(chief, oslo, 'far-future.csv', 'ts,flow_lpm\n8700000000000000,100\n1767225600000,100\n');
+		expect(body.report.rows_bad).toBe(1);
+		expect(body.report.problems).toEqual([{ line: 2, kind: 'out_of_range', message: 'ts: not a time: beyond the last date there is' }]);
+	});
+
 	it('only an admin or chief engineer may upload; shore office and technicians get 403', async () => {
 		for (const u of [shore, tech]) {
 			const res = await upload(u, oslo, 'log.csv', 'time,flow\n2026-01-01T00:00:00Z,70\n');

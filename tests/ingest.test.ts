@@ -101,6 +101,10 @@ describe('bad messages are rejected with a reason and counted', () => {
 		['invalid_ts', telemetry('corrin-bay', 'port'), JSON.stringify({ ts: '2026-12-01T10:00:00', flow_lpm: 3 })],
 		['invalid_ts', telemetry('corrin-bay', 'port'), JSON.stringify({ ts: 0, flow_lpm: 3 })],
 		['ts_in_future', telemetry('corrin-bay', 'port'), JSON.stringify({ ts: Date.now() + 3_600_000, flow_lpm: 3 })],
+		// beyond the last instant a Date can hold (8.64e15 ms, ECMA-262 §21.4.1.1)
+		['invalid_ts', telemetry('corrin-bay', 'port'), JSON.stringify({ ts: 9e15, flow_lpm: 3 })],
+		['invalid_ts', `${PREFIX}/corrin-bay/separator/state`, JSON.stringify({ ts: 9e15, dp_bar: 0.2 })],
+		['ts_in_future', `${PREFIX}/corrin-bay/gateway/status`, JSON.stringify({ online: true, ts: Date.now() + 3_600_000 })],
 		['unknown_shaft', telemetry('corrin-bay', 'centre'), JSON.stringify({ ts: Date.now(), flow_lpm: 3 })],
 		['payload_too_large', telemetry('corrin-bay', 'port'), JSON.stringify({ ts: Date.now(), flow_lpm: 3, pad: 'x'.repeat(5000) })],
 		['invalid_field', `${PREFIX}/corrin-bay/separator/state`, JSON.stringify({ ts: Date.now() })],

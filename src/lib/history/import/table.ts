@@ -3,11 +3,22 @@
  * embedded delimiters and line breaks handled there, not here). Loggers in
  * countries with a decimal comma write ';' between fields; some write tabs.
  */
-import { parse } from 'csv-parse/sync';
+import { parse, type Options } from 'csv-parse/sync';
 
 import { DELIMITERS, type Delimiter, type TableRow } from './delimiters';
 
 export { DELIMITERS, DELIMITER_LABELS, type Delimiter, type TableRow } from './delimiters';
+
+/** A file csv-parse cannot split into records (a quote never closed, say), with its reason. */
+export class TableError extends Error {}
+
+function parseOrExplain(text: string, options: Options): unknown {
+	try {
+		return parse(text, options);
+	} catch (err) {
+		throw new TableError(`the file cannot be read as a table: ${err instanceof Error ? err.message : String(err)}`);
+	}
+}
 
 export function parseTable(
 	text: string,
@@ -29,7 +40,7 @@ export function parseTable(
 	// Without quotes a record is a line, so the lines can be counted here: csv-parse's
 	// per-record info (the slow path) costs it almost three times the parse.
 	if (!text.includes('"')) {
-		const records = parse(text, common) as string[][];
+		const records = parseOrExplain(text, common) as string[][];
 		const lines = nonEmptyLines(text, eol);
 		const out: TableRow[] = [];
 		for (let i = 0; i < records.length; i++) {
@@ -37,7 +48,7 @@ export function parseTable(
 		}
 		return out;
 	}
-	const records = parse(text, { ...common, info: true }) as unknown as {
+	const records = parseOrExplain(text, { ...common, info: true }) as {
 		record: string[];
 		info: { lines: number; empty_lines: number };
 	}[];

@@ -9,13 +9,16 @@ import { z } from 'zod';
 
 /** 2000-01-01T00:00:00Z: anything earlier is a gateway whose clock was never set */
 const EARLIEST_TS = 946_684_800_000;
+/** the last instant a JavaScript Date can hold (ECMA-262 §21.4.1.1): beyond it no time at all */
+const LATEST_TS = 8.64e15;
 
 const isoWithZone = z.iso.datetime({ offset: true, message: 'ISO 8601 with a time zone (Z or ±hh:mm)' });
 
 export const timestamp = z
 	.union([z.number().int('epoch milliseconds, an integer'), isoWithZone])
 	.transform((v) => (typeof v === 'number' ? v : Date.parse(v)))
-	.refine((ms) => ms >= EARLIEST_TS, 'before the year 2000: is the gateway clock set?');
+	.refine((ms) => ms >= EARLIEST_TS, 'before the year 2000: is the gateway clock set?')
+	.refine((ms) => ms <= LATEST_TS, 'not a time: beyond the last date there is');
 
 const reading = (min: number, max: number, unit: string) =>
 	z.number().min(min, `below ${min} ${unit}`).max(max, `above ${max} ${unit}`);
@@ -53,7 +56,7 @@ const absentOrInRange = (v: unknown, range: readonly [number, number]) => v === 
  */
 export function fastTelemetry(body: Record<string, unknown>): TelemetryPayload | undefined {
 	const { ts, flow_lpm, supply_bar, temp_c, shaft_rpm } = body;
-	if (typeof ts !== 'number' || !Number.isSafeInteger(ts) || ts < EARLIEST_TS) return undefined;
+	if (typeof ts !== 'number' || !Number.isSafeInteger(ts) || ts < EARLIEST_TS || ts > LATEST_TS) return undefined;
 	if (!inRange(flow_lpm, TELEMETRY_RANGE.flow_lpm)) return undefined;
 	if (!absentOrInRange(supply_bar, TELEMETRY_RANGE.supply_bar)) return undefined;
 	if (!absentOrInRange(temp_c, TELEMETRY_RANGE.temp_c)) return undefined;

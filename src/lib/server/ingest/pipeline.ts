@@ -281,6 +281,7 @@ export class IngestPipeline {
 			this.#emit('separator', { vesselId: vessel.id, ts: p.ts, dp_bar: p.dp_bar ?? null, purge_valve: valve, newest });
 		} else {
 			const p = validate(gatewayStatusPayload, body);
+			if (p.ts !== undefined) this.#checkFuture(p.ts, now);
 			const at = p.ts ?? now;
 			const before = this.gateway.get(vessel.id);
 			this.gateway.set(vessel.id, { online: p.online, at, last_message_at: before?.last_message_at ?? null });

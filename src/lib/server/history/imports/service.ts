@@ -9,7 +9,7 @@ import { createHash } from 'node:crypto';
 import type { ImportMapping } from '$lib/history/import/mapping';
 import { suggestMapping } from '$lib/history/import/mapping';
 import { checkUploadType, MAX_UPLOAD_BYTES, sniffText } from '$lib/history/import/sniff';
-import { detectDelimiter, tableHead, type TableRow } from '$lib/history/import/table';
+import { detectDelimiter, tableHead, TableError, type TableRow } from '$lib/history/import/table';
 import { ApiError } from '../../api/errors';
 import { audit, type Actor } from '../../audit';
 import type { AppContext } from '../../context';
@@ -55,18 +55,31 @@ export function tableOf(
 ): ImportTable & { text: string } {
 	const { text, encoding } = textOf(bytes);
 	const d = delimiter ?? detectDelimiter(text);
-	return { text, encoding, delimiter: d, rows: tableHead(text, d, 30) };
+	try {
+		return { text, encoding, delimiter: d, rows: tableHead(text, d, 30) };
+	} catch (err) {
+		throw explained(err);
+	}
 }
 
-const analyseWith = (ctx: AppContext, h: ShaftHistory, text: string, mapping: ImportMapping) =>
-	analyse(ctx.db, {
-		shaftId: h.shaft.id,
-		text,
-		mapping,
-		gapMs: h.gapMs,
-		now: Date.now(),
-		maxFutureSkewS: ctx.config.MAX_FUTURE_SKEW_S
-	});
+/** A file that cannot be split into records is the uploader's to fix: 422 with csv-parse's reason. */
+const explained = (err: unknown) =>
+	err instanceof TableError ? new ApiError(422, 'unreadable_file', err.message) : err;
+
+const analyseWith = async (ctx: AppContext, h: ShaftHistory, text: string, mapping: ImportMapping) => {
+	try {
+		return await analyse(ctx.db, {
+			shaftId: h.shaft.id,
+			text,
+			mapping,
+			gapMs: h.gapMs,
+			now: Date.now(),
+			maxFutureSkewS: ctx.config.MAX_FUTURE_SKEW_S
+		});
+	} catch (err) {
+		throw explained(err);
+	}
+};
 
 async function noteRepeat(
 	ctx: AppContext,
@@ -103,6 +116,8 @@ export async function createImport(
 	if (table.rows.length === 0) throw new ApiError(422, 'no_rows', 'the file has no rows');
 	const suggestion = suggestMapping(table.rows, table.delimiter, h.vessel.time_zone);
 	const sha256 = createHash('sha256').update(file.bytes).digest('hex');
+	// analysed before anything is stored, so a file that cannot be read leaves nothing behind
+	const report = suggestion.mapping ? (await analyseWith(ctx, h, table.text, suggestion.mapping)).report : null;
 	const now = Date.now();
 
 	await ctx.db
@@ -136,11 +151,7 @@ export async function createImport(
 		details: { shaft_id: h.shaft.id, filename: file.name, size_bytes: file.bytes.length, sha256 }
 	});
 
-	let report: ImportReport | null = null;
-	if (suggestion.mapping) {
-		report = (await analyseWith(ctx, h, table.text, suggestion.mapping)).report;
-		await storeReport(ctx, id, report);
-	}
+	if (report) await storeReport(ctx, id, report);
 	const notes = [...suggestion.notes, ...(await noteRepeat(ctx, h, sha256, id))];
 	return { import: (await getImport(ctx.db, id))!, table: stripText(table), notes, report };
 }
