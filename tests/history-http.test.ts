@@ -123,6 +123,35 @@ describe('uploads over HTTP', () => {
 		expect((await res.json()).error.code).toBe('too_large');
 	});
 
+	it('a body sent without a length (chunked) past the server’s body limit is a 413, raw or multipart', async () => {
+		const port = ids['corrin-bay/port'].shaft;
+		// 26 MiB in 1 MiB chunks, past the 25M BODY_SIZE_LIMIT the server runs with (as npm start sets it)
+		const chunked = (prefix: string) => {
+			let sent = 0;
+			const chunk = new Uint8Array(1024 * 1024).fill(0x33);
+			return new ReadableStream<Uint8Array>({
+				pull(controller) {
+					if (sent === 0) controller.enqueue(new TextEncoder().encode(prefix));
+					if (sent++ >= 26) controller.close();
+					else controller.enqueue(chunk);
+				}
+			});
+		};
+		for (const [type, prefix] of [
+			['text/csv', ''],
+			['multipart/form-data; boundary=xx', '--xx\r\ncontent-disposition: form-data; name="file"; filename="big.csv"\r\ncontent-type: text/csv\r\n\r\n']
+		]) {
+			const res = await fetch(`${server.url}/api/shafts/${port}/imports`, {
+				method: 'POST',
+				headers: { cookie: chief.cookie!, 'content-type': type, origin: new URL(server.url).origin },
+				body: chunked(prefix),
+				duplex: 'half'
+			} as RequestInit);
+			expect(res.status, type).toBe(413);
+			expect((await res.json()).error.code).toBe('too_large');
+		}
+	});
+
 	it('a script may send the file as the body; a form post from another origin is refused', async () => {
 		const port = ids['corrin-bay/port'].shaft;
 		const res = await chief.request(

@@ -455,6 +455,13 @@ describe('CSV export', () => {
 		expect(res.status).toBe(400);
 		expect((await res.json()).error.fields).toHaveProperty('from');
 	});
+
+	it('a `to` at the first instant a Date holds is a 400 naming it, not a failure: the default `from` stays in range', async () => {
+		// −8.64e15 ms is the earliest time value (ECMA-262 §21.4.1.1); a day before it is none
+		const res = await exportApi.GET(event(shore, { shaftId: oslo.shaft.id }, { query: 'to=-8640000000000000' }));
+		expect(res.status).toBe(400);
+		expect((await res.json()).error.fields).toHaveProperty('to');
+	});
 });
 
 describe('an import interrupted by a stop', () => {

@@ -188,6 +188,13 @@ describe('POST /api/vessels/{id}/purge and GET …/purges', () => {
 		expect(Object.keys((await res.json()).error.fields)).toEqual(['duration_s']);
 	});
 
+	it('a `to` at the first instant a Date holds lists nothing, and is no failure', async () => {
+		// −8.64e15 ms, the earliest time value (ECMA-262 §21.4.1.1): the default from (a day before) is held there
+		const res = await chief.get(`/api/vessels/${ids['skerry-lark']}/purges?to=-8640000000000000`);
+		expect(res.status).toBe(200);
+		expect((await res.json()).purges).toEqual([]);
+	});
+
 	it('lists the commands with id, time, who asked and outcome; from/to as ISO 8601 or epoch ms', async () => {
 		const res = await chief.get(`/api/vessels/${ids['skerry-lark']}/purges`);
 		expect(res.status).toBe(200);

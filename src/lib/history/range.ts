@@ -57,7 +57,8 @@ export function suggestedBucket(from: number, to: number): Bucket {
 }
 
 /** the largest time value a JavaScript Date holds: 100 000 000 days either side of 1970 */
-const MAX_TIME_MS = 8.64e15;
+/** ms: the furthest a Date reaches either side of 1970 (ECMA-262 §21.4.1.1) */
+export const MAX_TIME_MS = 8.64e15;
 
 const ISO_WITH_OFFSET =
 	/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(?::\d{2}(?:[.,]\d{1,9})?)?(?:Z|[+-]\d{2}(?::?\d{2})?)$/i;

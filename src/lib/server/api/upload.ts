@@ -36,6 +36,15 @@ export interface UploadRules {
 /** the multipart envelope adds a few hundred bytes to the file */
 const ENVELOPE_BYTES = 64 * 1024;
 
+/**
+ * A body sent without a length (chunked) is cut off by the server at BODY_SIZE_LIMIT with an error
+ * of status 413 (SvelteKit's adapter-node): said as such, not as a failure of the server.
+ */
+function overLimit(err: unknown): ApiError | null {
+	if ((err as { status?: unknown } | null)?.status !== 413) return null;
+	return new ApiError(413, 'too_large', 'the body is larger than this server accepts (BODY_SIZE_LIMIT)');
+}
+
 export async function readUpload(event: RequestEvent, rules: UploadRules): Promise<Upload> {
 	const { request, url } = event;
 	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
@@ -46,8 +55,8 @@ export async function readUpload(event: RequestEvent, rules: UploadRules): Promi
 		let form: FormData;
 		try {
 			form = await request.formData();
-		} catch {
-			throw new ApiError(400, 'bad_body', 'the body is not readable multipart/form-data');
+		} catch (err) {
+			throw overLimit(err) ?? new ApiError(400, 'bad_body', 'the body is not readable multipart/form-data');
 		}
 		const part = form.get('file');
 		// a form sent with no file chosen carries an empty part without a name
@@ -66,7 +75,12 @@ export async function readUpload(event: RequestEvent, rules: UploadRules): Promi
 		};
 	}
 	if (rules.rawTypes.includes(type)) {
-		const bytes = new Uint8Array(await request.arrayBuffer());
+		let bytes: Uint8Array;
+		try {
+			bytes = new Uint8Array(await request.arrayBuffer());
+		} catch (err) {
+			throw overLimit(err) ?? new ApiError(400, 'bad_body', 'the body could not be read');
+		}
 		if (bytes.length > rules.maxBytes) throw rules.tooLarge(bytes.length);
 		return {
 			name: url.searchParams.get('filename') || rules.defaultName,

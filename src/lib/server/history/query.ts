@@ -1,6 +1,6 @@
 /** Query parameters of the history API, one schema per shape. */
 import { z } from 'zod';
-import { DAY_MS, MAX_PERIOD_MS, parseInstant } from '$lib/history/range';
+import { DAY_MS, MAX_PERIOD_MS, MAX_TIME_MS, parseInstant } from '$lib/history/range';
 
 const instant = z.string().transform((s, ctx) => {
 	const v = parseInstant(s);
@@ -19,7 +19,7 @@ const period = z.object({ from: instant.optional(), to: instant.optional() });
 /** from/to are both optional: to defaults to now, from to a day before to. */
 function withDefaults<Q extends { from?: number; to?: number }>(q: Q, ctx: z.RefinementCtx) {
 	const to = q.to ?? Date.now();
-	const from = q.from ?? to - DAY_MS;
+	const from = q.from ?? Math.max(to - DAY_MS, -MAX_TIME_MS); // a default stays a time a Date can hold
 	if (!(to > from)) ctx.addIssue({ code: 'custom', path: ['to'], message: 'must be after from' });
 	else if (to - from > MAX_PERIOD_MS)
 		ctx.addIssue({ code: 'custom', path: ['from'], message: 'the period may be at most 20 years' });

@@ -1,5 +1,6 @@
 /** The purge API's input shapes and the running service, for the thin routes. */
 import { z } from 'zod';
+import { MAX_TIME_MS } from '$lib/history/range';
 import { MAX_DURATION_S, MIN_DURATION_S } from '$lib/purge';
 import { ApiError } from '../api/errors';
 import { parseInstant } from '../api/time';
@@ -26,7 +27,8 @@ const DEFAULT_RANGE_MS = 86_400_000;
 
 export function purgesRange(q: z.output<typeof purgesQuery>, now = Date.now()) {
 	const to = q.to === undefined ? now : parseInstant(q.to, 'to');
-	const from = q.from === undefined ? to - DEFAULT_RANGE_MS : parseInstant(q.from, 'from');
+	// a default stays a time a Date can hold
+	const from = q.from === undefined ? Math.max(to - DEFAULT_RANGE_MS, -MAX_TIME_MS) : parseInstant(q.from, 'from');
 	if (from > to)
 		throw new ApiError(400, 'bad_query', 'from: must not be after to', {
 			from: 'must not be after to'
