@@ -102,7 +102,18 @@ const protect: Handle = async ({ event, resolve }) => {
 		}
 		return new Response('Not found', { status: 404, headers: { 'content-type': 'text/plain' } });
 	}
-	return resolve(event);
+	if (!isApi) return resolve(event);
+	// the API answers in JSON throughout, also for paths and methods it does not have
+	if (!event.route.id) return json({ error: { code: 'not_found', message: 'no such API route' } }, { status: 404 });
+	const response = await resolve(event);
+	if (response.status === 405 && !response.headers.get('content-type')?.includes('application/json')) {
+		const allow = response.headers.get('allow');
+		return json(
+			{ error: { code: 'method_not_allowed', message: `${event.request.method} is not allowed here${allow ? `; use ${allow}` : ''}` } },
+			{ status: 405, headers: allow ? { allow } : {} }
+		);
+	}
+	return response;
 };
 
 export const handle: Handle = sequence(authenticate, protect);

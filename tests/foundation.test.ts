@@ -14,7 +14,7 @@ import { bundledMigrations } from '$lib/server/db/bundled-migrations';
 import { seedAdmin, seedDemo } from '$lib/server/demo/seed';
 import { loadConfig } from '$lib/server/config';
 import { startServer, type TestServer } from './helpers/server';
-import { client, DEMO_PASSWORD } from './helpers/http';
+import { client, DEMO_PASSWORD, signIn, type Client } from './helpers/http';
 
 const dir = mkdtempSync(join(tmpdir(), 'aftwater-foundation-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -93,8 +93,10 @@ describe('database', () => {
 
 describe('sign-in over HTTP', () => {
 	let server: TestServer;
+	let shore: Client; // signed in before the throttling tests lock this address out
 	beforeAll(async () => {
 		server = await startServer();
+		shore = await signIn(server.url, 'shore@demo.test');
 	});
 	afterAll(() => server?.stop());
 
@@ -153,5 +155,18 @@ describe('sign-in over HTTP', () => {
 		const res = await fetch(`${server.url}/api/health`);
 		expect(res.status).toBe(200);
 		expect((await res.json()).ingest).toMatchObject({ received_total: expect.any(Number), stored_total: expect.any(Number), rejected_total: expect.any(Number) });
+	});
+
+	it('the API answers in JSON for paths and methods it does not have', async () => {
+		const c = shore;
+		for (const path of ['/api/no-such-thing', '/api/vessels/1e400', '/api/vessels/-1', '/api/vessels/0x10']) {
+			const res = await c.get(path);
+			expect(res.status, path).toBe(404);
+			expect((await res.json()).error.code).toBe('not_found');
+		}
+		const wrong = await c.request('DELETE', '/api/health');
+		expect(wrong.status).toBe(405);
+		expect((await wrong.json()).error.code).toBe('method_not_allowed');
+		expect(wrong.headers.get('allow')).toContain('GET');
 	});
 });
