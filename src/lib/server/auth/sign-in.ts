@@ -1,5 +1,6 @@
 /**
- * Signing in: throttled per account and per client address, the same answer
+ * Signing in: throttled per account and address, per account and per client address
+ * (see createSignInThrottles), the same answer
  * for an unknown address as for a wrong password, and a hash check either way
  * so the time taken does not tell which.
  */
@@ -19,18 +20,20 @@ export async function checkCredentials(
 	clientAddress: string
 ): Promise<SignInResult> {
 	const accountKey = email.trim().toLowerCase();
-	const { account, address } = ctx.throttles;
-	const wait = Math.max(account.retryAfterMs(accountKey), address.retryAfterMs(clientAddress));
+	const { pair, account, address } = ctx.throttles;
+	const pairKey = `${accountKey}\n${clientAddress}`;
+	const wait = Math.max(pair.retryAfterMs(pairKey), account.retryAfterMs(accountKey), address.retryAfterMs(clientAddress));
 	if (wait > 0) return { ok: false, reason: 'throttled', retryAfterS: Math.ceil(wait / 1000) };
 
 	const row = await users.findByEmail(ctx.db, accountKey);
 	const hash = row?.password_hash ?? (await dummyHash());
 	const good = (await verifySecret(hash, password)) && !!row?.password_hash && row.disabled_at === null;
 	if (!good) {
+		pair.fail(pairKey);
 		account.fail(accountKey);
 		address.fail(clientAddress);
 		return { ok: false, reason: 'invalid' };
 	}
-	account.reset(accountKey);
+	pair.reset(pairKey);
 	return { ok: true, userId: row!.id };
 }

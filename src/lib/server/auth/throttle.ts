@@ -45,10 +45,17 @@ export class FailureThrottle {
 	}
 }
 
-/** 5 failures per account in 15 minutes; 20 per client address (several users share a ship's NAT). */
+/**
+ * Per 15 minutes: 5 failures for an account from one client address; 50 for an account from all
+ * addresses together (so guessing from many addresses is bounded too); 20 per client address
+ * across accounts (several users share a ship's NAT). Locking an account only at the pair's limit
+ * means that somebody guessing from one address cannot lock the chief engineer out everywhere
+ * during an incident. (Limits: common practice, after OWASP's authentication guidance.)
+ */
 export function createSignInThrottles() {
 	return {
-		account: new FailureThrottle({ limit: 5, windowMs: 15 * 60_000 }),
+		pair: new FailureThrottle({ limit: 5, windowMs: 15 * 60_000 }),
+		account: new FailureThrottle({ limit: 50, windowMs: 15 * 60_000 }),
 		address: new FailureThrottle({ limit: 20, windowMs: 15 * 60_000 })
 	};
 }

@@ -137,20 +137,20 @@ export async function changeOwnPassword(
 	next: string
 ) {
 	const row = await users.findById(ctx.db, userId);
-	// the same throttle as sign-in: a stolen session must not be a way to guess the password
-	const key = row?.email ?? userId;
-	const wait = ctx.throttles.account.retryAfterMs(key);
+	// as strict as sign-in from one address: a stolen session must not be a way to guess the password
+	const key = `${row?.email ?? userId}\npassword change`;
+	const wait = ctx.throttles.pair.retryAfterMs(key);
 	if (wait > 0) {
 		throw new ApiError(429, 'throttled', `too many wrong passwords; try again in ${Math.ceil(wait / 1000)} s`, undefined, {
 			'retry-after': String(Math.ceil(wait / 1000))
 		});
 	}
 	if (!row?.password_hash || !(await verifySecret(row.password_hash, current))) {
-		ctx.throttles.account.fail(key);
+		ctx.throttles.pair.fail(key);
 		throw new ApiError(422, 'invalid', 'current_password: not your current password', {
 			current_password: 'not your current password'
 		});
 	}
-	ctx.throttles.account.reset(key);
+	ctx.throttles.pair.reset(key);
 	await setPassword(ctx, actor, userId, next);
 }
