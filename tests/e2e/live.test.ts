@@ -65,6 +65,10 @@ describe('live watch', () => {
 
 		const tripped = Date.now();
 		flow = 20; // the duty pump trips
+		// at once, before the alarm's on-delay has run: the shaft does not look normal meanwhile
+		const pending = chief.page.locator('[data-testid="shaft-live"][data-shaft="port"]').getByTestId('below-minimum');
+		await pending.waitFor({ timeout: 5_000 });
+		expect(await pending.textContent()).toContain('alarm pending');
 		const banner = chief.page.getByTestId('alarm-banner');
 		await banner.waitFor({ timeout: 15_000 + 2_000 + 1_500 }); // on-delay + 2 s + one publishing interval
 		expect(Date.now() - tripped).toBeLessThan(15_000 + 2_000 + 1_500);
@@ -82,6 +86,14 @@ describe('live watch', () => {
 		await row(fleet.page).getByRole('button', { name: 'History' }).click();
 		await expect.poll(() => row(fleet.page).locator('ol').textContent(), { timeout: 5_000 }).toContain('“Standby pump started by hand”');
 
+		// once the alarm sounds the badge gives way to it; the alarm card's buttons stay inside the page
+		await expect.poll(() => pending.count(), { timeout: 5_000 }).toBe(0);
+		for (const width of [1920, 820]) {
+			await chief.page.setViewportSize({ width, height: 1080 });
+			await chief.page.waitForTimeout(300); // the charts follow the window's width
+			expect(await chief.page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), `${width} px`).toBeLessThanOrEqual(0);
+		}
+		await chief.page.setViewportSize({ width: 1440, height: 900 });
 		await chief.page.screenshot({ path: `${ARTIFACTS}/vessel-light.png`, fullPage: true });
 		flow = 110; // the standby pump has started
 		await chief.context.close();

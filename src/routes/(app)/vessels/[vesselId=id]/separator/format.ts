@@ -18,14 +18,4 @@ export const OUTCOME: Record<Outcome, { state: MarkState; label: string }> = {
 	valve_stuck_open: { state: 'warning', label: 'Valve stuck open' }
 };
 
-/** the proof's finding in words */
-export const FINDING: Record<string, string> = {
-	waiting_to_open: 'waiting for the valve to report open',
-	waiting_to_close: 'valve open, waiting for it to close',
-	not_opened: 'the valve never reported open in time',
-	closed_early: 'the valve closed well before the purge time',
-	closed_in_time: 'opened and closed in time',
-	open_too_long: 'the valve stayed open far past the purge time',
-	publish_failed: 'the command could not be sent (broker unavailable)',
-	valve_already_open: 'not sent: the valve already reported open at the scheduled time'
-};
+export { FINDING } from '$lib/purge/findings';
