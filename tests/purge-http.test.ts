@@ -237,6 +237,7 @@ describe('the separator page', () => {
 		expect(html).toContain('Every 4 h at 00:30');
 		expect(html).toContain('data-testid="next-runs"');
 		expect(html).toContain('no-discharge areas');
+		expect(html).toMatch(/opens by remote command[\s\S]*lock it out/);
 		expect(html).toContain('Purge now');
 		expect(html).toContain('Change the schedule');
 	});

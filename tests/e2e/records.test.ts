@@ -31,6 +31,7 @@ describe('records', () => {
 		await expect.poll(() => page.getByTestId('wear-chart').count()).toBe(1);
 		expect(await page.getByTestId('wear-projection').textContent()).toMatch(/\d{4}-\d\d-\d\d/);
 		expect(await page.getByTestId('records-caution').textContent()).toMatch(/liquid\s+nitrogen/);
+		expect(await page.getByTestId('seal-test-caution').textContent()).toMatch(/release the\s+pressure before opening/);
 		const wearRows = page.getByTestId('wear-panel').locator('tbody tr');
 		const before = await wearRows.count();
 		expect(before).toBeGreaterThan(2);
