@@ -55,6 +55,16 @@ describe('coverageFromPoints (hand-worked)', () => {
 		const s = sharesOf(cov, 240_000);
 		expect(s.share_unknown).toBe(0.5);
 		expect(s.share_at_or_above_min).toBe(0.5);
+		// of the 120 s with data, all 120 s were at or above the minimum
+		expect(s.share_at_or_above_min_of_known).toBe(1);
+	});
+
+	it('the share of the time with data: 450 s of 600 s known, 150 s of them below → 0.75; none known → null', () => {
+		// hand arithmetic: (600 − 150) / 600 = 0.75 of the known time; of the 1 200 s period, 450 / 1 200 = 0.375
+		const s = sharesOf({ covered_ms: 600_000, below_ms: 150_000 }, 1_200_000);
+		expect(s.share_at_or_above_min).toBe(0.375);
+		expect(s.share_at_or_above_min_of_known).toBe(0.75);
+		expect(sharesOf({ covered_ms: 0, below_ms: 0 }, 1_200_000).share_at_or_above_min_of_known).toBeNull();
 	});
 
 	it('clips to the period and counts the sample before it', () => {

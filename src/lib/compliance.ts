@@ -75,6 +75,8 @@ export interface ComplianceShares {
 	share_at_or_above_min: number;
 	share_below_min: number;
 	share_unknown: number;
+	/** at or above the minimum as a share of the time with data; null when there was none */
+	share_at_or_above_min_of_known: number | null;
 	seconds_below_min: number;
 	seconds_unknown: number;
 }
@@ -89,6 +91,7 @@ export function sharesOf(coverage: Coverage, periodMs: number): ComplianceShares
 		share_at_or_above_min: share(covered - below),
 		share_below_min: share(below),
 		share_unknown: share(period - covered),
+		share_at_or_above_min_of_known: covered > 0 ? (covered - below) / covered : null,
 		seconds_below_min: below / 1000,
 		seconds_unknown: (period - covered) / 1000
 	};

@@ -97,6 +97,8 @@ export interface ShaftCompliance {
 	share_at_or_above_min: number;
 	share_below_min: number;
 	share_unknown: number;
+	/** at or above the minimum as a share of the time with data (null: no data in the period) */
+	share_at_or_above_min_of_known: number | null;
 	seconds_at_or_above_min: number;
 	seconds_below_min: number;
 	seconds_unknown: number;

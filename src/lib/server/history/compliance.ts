@@ -202,6 +202,7 @@ export async function shaftCompliance(
 		share_at_or_above_min: shares.share_at_or_above_min,
 		share_below_min: shares.share_below_min,
 		share_unknown: shares.share_unknown,
+		share_at_or_above_min_of_known: shares.share_at_or_above_min_of_known,
 		seconds_at_or_above_min: (to - from) / 1000 - shares.seconds_below_min - shares.seconds_unknown,
 		seconds_below_min: shares.seconds_below_min,
 		seconds_unknown: shares.seconds_unknown,
