@@ -1,4 +1,5 @@
 /** Input shapes of the commissioning and maintenance records (API bodies and forms). */
+import { DateTime } from 'luxon';
 import { z } from 'zod';
 import { BEARING_STATIONS, SEAL_POSITIONS, WEAR_METHODS } from '$lib/records/kinds';
 import { MATERIALS } from '$lib/records/shrink-fit';
@@ -17,7 +18,8 @@ const when = z.union([z.number().int(), z.string().trim().min(1)]).transform((v,
 		typeof v === 'number'
 			? v
 			: /(Z|[+-]\d\d:?\d\d)$/i.test(v) || /^\d{4}-\d\d-\d\d$/.test(v)
-				? Date.parse(v)
+				? // luxon refuses a day the month has not (Date.parse rolls 30 February on to 2 March)
+					DateTime.fromISO(v, { zone: 'utc' }).toMillis()
 				: NaN;
 	if (!Number.isFinite(ms)) {
 		ctx.addIssue({
