@@ -80,6 +80,26 @@ describe('vessel scope', () => {
 		expect(sep.data!.service.errors.type).toMatch(/separator/);
 	});
 
+	it('taking an alarm out of service with a blank reason says why, at that alarm, and keeps what was typed', async () => {
+		const corrin = ids['corrin-bay/port'];
+		const path = `/vessels/${corrin.vessel}/shafts/${corrin.shaft}?/service`;
+		const fields = { type: 'low_flow', out_of_service: 'true', reason: '   ' };
+		const answer = await postAction(chief, server.env.ORIGIN, path, fields);
+		expect(answer.failure).toBe(400);
+		expect(answer.data!.service).toMatchObject({ type: 'low_flow', reason: '   ' });
+		expect(Object.keys(answer.data!.service.errors)).toEqual(['reason']);
+		// without JavaScript the page itself comes back with the error shown
+		const page = await fetch(server.url + path, {
+			method: 'POST',
+			headers: { cookie: chief.cookie!, origin: server.env.ORIGIN, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
+			body: new URLSearchParams(fields)
+		});
+		expect(page.status).toBe(400);
+		const html = await page.text();
+		expect(html).toContain('role="alert"');
+		expect(html).toContain(answer.data!.service.errors.reason);
+	});
+
 	it('the fleet table lists only the shafts the caller may see', async () => {
 		const mine = await (
 			await chief.get('/api/compliance?from=2026-01-01T00:00:00Z&to=2026-01-02T00:00:00Z')

@@ -50,9 +50,11 @@ export const actions: Actions = {
 			out_of_service: form.get('out_of_service') === 'true',
 			reason: form.get('reason')
 		});
-		if (!parsed.success) return fail(400, { service: { errors: fieldErrors(parsed.error) } });
+		// the row's type and what was typed come back with the errors, to show them where they belong
+		const entered = { type: String(form.get('type') ?? ''), reason: String(form.get('reason') ?? '') };
+		if (!parsed.success) return fail(400, { service: { ...entered, errors: fieldErrors(parsed.error) } });
 		if (ALARM_SCOPE[parsed.data.type] !== 'shaft') {
-			return fail(400, { service: { errors: { type: 'a separator alarm: take it out of service on the separator page' } } });
+			return fail(400, { service: { ...entered, errors: { type: 'a separator alarm: take it out of service on the separator page' } } });
 		}
 		await context().services.alarms!.setOutOfService(
 			{ vesselId: Number(params.vesselId), shaftId: Number(params.shaftId), type: parsed.data.type },
@@ -60,6 +62,6 @@ export const actions: Actions = {
 			parsed.data.reason,
 			actorOf(user)
 		);
-		return { service: { errors: {} as Record<string, string> } };
+		return { service: { type: parsed.data.type, reason: '', errors: {} as Record<string, string> } };
 	}
 };
