@@ -847,4 +847,22 @@ describe('the records page without script', () => {
 		expect(form).toContain('value="lots"');
 		expect(counts(shaft)).toEqual(before);
 	});
+
+	it('an attachment sent without a file says so and keeps the notes typed', async () => {
+		const { vessel, shaft } = ids['corrin-bay/stbd'];
+		const body = new FormData();
+		body.set('shaft_id', String(shaft));
+		body.set('notes', 'photo of the aft seal to follow');
+		body.set('file', new File([], '')); // no file chosen
+		const res = await fetch(`${server.url}/vessels/${vessel}/records?shaft=${shaft}&/attachment`, {
+			method: 'POST',
+			body,
+			headers: { cookie: tech.cookie!, origin: server.env.ORIGIN, accept: 'text/html' }
+		});
+		expect(res.status).toBe(400);
+		const html = await res.text();
+		const form = html.slice(html.indexOf('data-testid="form-attachment"'), html.indexOf('</form>', html.indexOf('data-testid="form-attachment"')));
+		expect(form).toMatch(/class="field-error"/);
+		expect(form).toContain('photo of the aft seal to follow');
+	});
 });

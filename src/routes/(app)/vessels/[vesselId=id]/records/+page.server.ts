@@ -156,11 +156,14 @@ export const actions: Actions = {
 				values: { notes }
 			});
 		let upload: Upload;
+		// kept to give back the notes typed when the file itself is refused (not for a body too large to read twice)
+		const copy = event.request.clone();
 		try {
 			upload = await readUpload(event, ATTACHMENT_UPLOAD);
 		} catch (err) {
-			if (err instanceof ApiError) return refused(err, '');
-			throw err;
+			if (!(err instanceof ApiError)) throw err;
+			const notes = err.status === 413 ? '' : await copy.formData().then((f) => String(f.get('notes') ?? ''), () => '');
+			return refused(err, notes);
 		}
 		const shaft = await formShaft(event, upload.field('shaft_id'));
 		const notes = upload.field('notes') ?? '';
