@@ -66,6 +66,21 @@ const authenticate: Handle = async ({ event, resolve }) => {
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /**
+ * A page outside the caller's vessels, answered before any load or action runs (so nothing of it is
+ * read): the same words as the app's own error page, with a way back, light or dark as the system is.
+ */
+function notFoundPage(): Response {
+	const html = `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<title>404 · Aftwater</title><style>
+:root{color-scheme:light dark;font-family:system-ui,sans-serif;background:#f6f7f8;color:#1b1f23}
+@media (prefers-color-scheme:dark){:root{background:#101418;color:#e6e9ec}a{color:#7fb6ff}}
+main{max-width:36rem;margin:0 auto;padding:2rem}h1{font-size:1.5rem;font-weight:600}p{opacity:.85}</style></head>
+<body><main><h1>Not found</h1><p>There is no such page, or it belongs to a vessel you are not assigned to.</p>
+<p><a href="/">Back to the fleet</a></p></main></body></html>`;
+	return new Response(html, { status: 404, headers: { 'content-type': 'text/html; charset=utf-8' } });
+}
+
+/**
  * A request that changes something and rides on the session cookie must come from this site.
  * SvelteKit checks the origin of form posts only; a JSON API call with no body (purge now, rotate
  * credentials, sign out) would otherwise be open to any page on the same site (another port of
@@ -100,7 +115,7 @@ const protect: Handle = async ({ event, resolve }) => {
 		if (isApi) {
 			return json({ error: { code: 'not_found', message: 'not found' } }, { status: 404 });
 		}
-		return new Response('Not found', { status: 404, headers: { 'content-type': 'text/plain' } });
+		return notFoundPage();
 	}
 	if (!isApi) return resolve(event);
 	// the API answers in JSON throughout, also for paths and methods it does not have

@@ -69,7 +69,14 @@ describe('vessel scope', () => {
 		const skerry = ids['skerry-lark/port']; // the chief sees both vessels
 		const form = new URLSearchParams({ type: 'low_flow', out_of_service: 'true', reason: 'flow meter replaced' });
 		const wrong = `/vessels/${corrin.vessel}/shafts/${skerry.shaft}`;
-		expect((await chief.get(wrong)).status).toBe(404);
+		const page = await chief.get(wrong);
+		expect(page.status).toBe(404);
+		expect(page.headers.get('content-type')).toContain('text/html');
+		expect(await page.text()).toContain('<a href="/">Back to the fleet</a>');
+		// the shaft's settings, shown to a technician, say who may change them
+		const techPage = await (await tech.get(`/vessels/${corrin.vessel}/shafts/${corrin.shaft}`)).text();
+		expect(techPage).toContain('data-testid="settings-read-only"');
+		expect(await (await chief.get(`/vessels/${corrin.vessel}/shafts/${corrin.shaft}`)).text()).not.toContain('settings-read-only');
 		expect((await postForm(chief, server.env.ORIGIN, `${wrong}?/service`, form)).status).toBe(404);
 		const sep = await postAction(chief, server.env.ORIGIN, `/vessels/${corrin.vessel}/shafts/${corrin.shaft}?/service`, {
 			type: 'purge_missed',
