@@ -317,6 +317,8 @@ describe('audit log and ingest health', () => {
 		const actions = [...html.matchAll(/data-action="([^"]+)"/g)].map((m) => m[1]);
 		expect(actions).toEqual(['shaft.update']);
 		expect(html).toContain('Port shaft (aft bearing)');
+		// the shaft is named in the "What" column, its id beside
+		expect(html).toMatch(/<td>shaft Port shaft \(aft bearing\) \(\d+\)<\/td>/);
 		const all = await (await admin.get(`/admin/audit?vessel=${ids['north-gale']}`)).text();
 		const order = [...all.matchAll(/data-action="([^"]+)"/g)].map((m) => m[1]);
 		// newest first: the vessel was created before anything else happened to it

@@ -2,7 +2,7 @@
  * Reading the audit log for the administration pages: newest first, a page
  * at a time, narrowed by vessel and action. Writing stays in ../audit.ts.
  */
-import type { Kysely } from 'kysely';
+import { sql, type Kysely } from 'kysely';
 import type { Database } from '../db/schema';
 
 export interface AuditQuery {
@@ -22,6 +22,8 @@ export interface AuditRow {
 	entity_id: string | null;
 	vessel_id: number | null;
 	vessel_name: string | null;
+	/** the shaft's name, when the entry is about a shaft */
+	shaft_name: string | null;
 	/** parsed JSON, or the raw text when it does not parse */
 	details: unknown;
 }
@@ -47,6 +49,9 @@ export async function listAuditLog(db: Kysely<Database>, q: AuditQuery) {
 	const page = Math.min(Math.max(1, q.page), pages);
 	const rows = await filtered
 		.leftJoin('vessels', 'vessels.id', 'audit_log.vessel_id')
+		.leftJoin('shafts', (join) =>
+			join.on(sql<boolean>`audit_log.entity = 'shaft' and shafts.id = cast(audit_log.entity_id as integer)`)
+		)
 		.select([
 			'audit_log.id',
 			'audit_log.at',
@@ -56,7 +61,8 @@ export async function listAuditLog(db: Kysely<Database>, q: AuditQuery) {
 			'audit_log.entity_id',
 			'audit_log.vessel_id',
 			'audit_log.details',
-			'vessels.name as vessel_name'
+			'vessels.name as vessel_name',
+			'shafts.name as shaft_name'
 		])
 		// `at` may be given by the writer (a backdated import); id breaks ties in write order
 		.orderBy('audit_log.at', 'desc')
