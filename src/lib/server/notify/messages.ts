@@ -196,7 +196,8 @@ async function followup(db: Db, threadId: number, change: Change, now: number) {
 							? (c.incident.acknowledged_at ?? at)
 							: (c.incident.ended_at ?? at),
 					by: change === 'acknowledged' ? c.incident.acknowledged_by : null,
-					comment: change === 'acknowledged' ? c.incident.ack_comment : null
+					comment: change === 'acknowledged' ? c.incident.ack_comment : null,
+					alreadyCleared: change === 'acknowledged' && c.incident.ended_at !== null
 				}
 			};
 		}

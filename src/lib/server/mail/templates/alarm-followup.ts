@@ -24,7 +24,9 @@ export function renderAlarmFollowup(data: AlarmFollowupData, env: MailEnv): Rend
 			: `Returned to normal, ${when}`;
 	const detail =
 		data.change === 'acknowledged'
-			? 'Someone is dealing with it; the condition may still be present. You will hear again when it returns to normal.'
+			? data.alreadyCleared
+				? 'The condition had already cleared when it was acknowledged. The reading below is the latest one.'
+				: 'Someone is dealing with it; the condition may still be present. You will hear again when it returns to normal.'
 			: 'The condition has cleared. The reading below is the latest one.';
 	const rows = alarmFacts(recipient.units, alarm, env);
 	const comment = data.comment ? `Comment: ${data.comment}` : null;

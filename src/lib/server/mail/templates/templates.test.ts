@@ -257,6 +257,17 @@ describe('threads and summaries', () => {
 		expect(followup.text).toContain('Returned to normal, 2026-12-01 14:15 (Europe/Oslo');
 	});
 
+	it('an acknowledgement after the condition cleared does not promise word of its return', () => {
+		const ack = (alreadyCleared: boolean) =>
+			renderMail(
+				{ kind: 'alarm_followup', data: { recipient: metric, alarm: lowFlow(), change: 'acknowledged', at: WINTER + 600_000, by: 'chief@demo.test', alreadyCleared } },
+				env
+			).text;
+		expect(ack(false)).toContain('You will hear again when it returns to normal');
+		expect(ack(true)).toContain('had already cleared');
+		expect(ack(true)).not.toContain('You will hear again');
+	});
+
 	it('says in an escalation who was told and when', () => {
 		const { subject, text } = renderMail(
 			{

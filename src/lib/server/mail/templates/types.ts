@@ -125,6 +125,8 @@ export interface AlarmFollowupData {
 	/** who acknowledged; null for a return to normal */
 	by?: string | null;
 	comment?: string | null;
+	/** acknowledged after the condition had already cleared (ISA-18.2: returned to normal, unacknowledged) */
+	alreadyCleared?: boolean;
 }
 
 /** Many alarms raised within a short window, told in one message instead of a storm. */
