@@ -3,7 +3,7 @@ import { importMapping } from './mapping';
 import { suggestMapping } from './mapping';
 import { convertRows, medianInterval, readNumber } from './rows';
 import { checkUploadType, sniffText } from './sniff';
-import { detectDecimal, detectDelimiter, detectHeader, parseTable, tableHead } from './table';
+import { detectDecimal, detectDelimiter, detectHeader, MAX_COLUMNS, parseTable, parseTableInSlices, TableError, tableHead } from './table';
 import { FLOW_UNITS, PRESSURE_UNITS, TEMPERATURE_UNITS } from './units';
 
 const bytes = (s: string) => new TextEncoder().encode(s);
@@ -61,6 +61,27 @@ describe('table', () => {
 		const rows = parseTable('a,b\n\n1,"x\ny"\n2,z\n', ',');
 		expect(rows.map((r) => r.line)).toEqual([1, 3, 5]);
 		expect(tableHead('a,b\n1,2\n3,4\n', ',', 2).length).toBe(2);
+	});
+});
+
+describe('large files', () => {
+	it('read in slices give the same rows and file lines as read at once (LF and CRLF, blank lines, BOM)', async () => {
+		for (const eol of ['\n', '\r\n']) {
+			const lines = ['\ufefftime,flow_lpm'];
+			for (let i = 0; i < 60_000; i++) lines.push(i % 997 === 0 ? '' : `2026-01-01T00:00:${String(i % 60).padStart(2, '0')}Z,${80 + (i % 7)}`);
+			const text = lines.join(eol) + eol;
+			expect(text.length).toBeGreaterThan(2 * 512 * 1024); // several slices
+			let pauses = 0;
+			const sliced = await parseTableInSlices(text, ',', async () => void pauses++);
+			expect(pauses).toBeGreaterThan(1);
+			expect(sliced).toEqual(parseTable(text, ','));
+		}
+	});
+
+	it('refuses a row of more columns than any logger writes (a wrong delimiter, or not a table)', () => {
+		const wide = `${'x,'.repeat(MAX_COLUMNS)}x\n1,2\n`;
+		expect(() => parseTable(wide, ',')).toThrow(TableError);
+		expect(() => parseTable(wide, ',')).toThrow(/line 1 has 257 columns/);
 	});
 });
 

@@ -48,77 +48,109 @@ export function readNumber(text: string | undefined, decimal: '.' | ','): number
 }
 
 export function convertRows(rows: TableRow[], mapping: ImportMapping): ConvertedRows {
-	const reader = new TimeReader(mapping.time.format, mapping.time.zone);
-	const data = mapping.header ? rows.slice(1) : rows;
-	const samples: LoggerSample[] = [];
-	const problems: RowProblem[] = [];
-	let ambiguous = 0;
-	let withOffset = 0;
-	const flowUnit = FLOW_UNITS[mapping.flow.unit];
-	const pressureUnit = mapping.pressure ? PRESSURE_UNITS[mapping.pressure.unit] : null;
-	const tempUnit = mapping.temperature ? TEMPERATURE_UNITS[mapping.temperature.unit] : null;
+	const converter = new RowConverter(mapping);
+	converter.add(mapping.header ? rows.slice(1) : rows);
+	return converter.result();
+}
 
-	for (const row of data) {
-		const cell = (i: number) => row.cells[i];
-		const timeText =
-			mapping.time.date_column !== null
-				? `${cell(mapping.time.date_column) ?? ''} ${cell(mapping.time.column) ?? ''}`
-				: (cell(mapping.time.column) ?? '');
-		const time = reader.read(timeText);
-		if (!time.ok) {
-			problems.push({
-				line: row.line,
-				kind: time.message.includes('does not exist') ? 'nonexistent_time' : 'unreadable_time',
-				message: time.message
-			});
-			continue;
-		}
-		const flow = readNumber(cell(mapping.flow.column), mapping.decimal);
-		if (flow === null) {
-			problems.push({ line: row.line, kind: 'missing_flow', message: 'no flow value' });
-			continue;
-		}
-		if (flow === 'bad') {
-			problems.push({
-				line: row.line,
-				kind: 'unreadable_number',
-				message: `flow “${cell(mapping.flow.column)}” is not a number`
-			});
-			continue;
-		}
-		const optional = (
-			col: { column: number } | null,
-			name: string,
-			toSi: (v: number) => number
-		) => {
-			if (!col) return null;
-			const v = readNumber(cell(col.column), mapping.decimal);
-			if (v === 'bad') {
+/**
+ * convertRows, a slice of rows at a time (the header row already left out), so a large file can
+ * be read with pauses between slices; the time reader and the counts carry across slices.
+ */
+export class RowConverter {
+	readonly #mapping: ImportMapping;
+	readonly #reader: TimeReader;
+	readonly #samples: LoggerSample[] = [];
+	readonly #problems: RowProblem[] = [];
+	#total = 0;
+	#ambiguous = 0;
+	#withOffset = 0;
+
+	constructor(mapping: ImportMapping) {
+		this.#mapping = mapping;
+		this.#reader = new TimeReader(mapping.time.format, mapping.time.zone);
+	}
+
+	add(data: TableRow[]): void {
+		const mapping = this.#mapping;
+		const reader = this.#reader;
+		const samples = this.#samples;
+		const problems = this.#problems;
+		const flowUnit = FLOW_UNITS[mapping.flow.unit];
+		const pressureUnit = mapping.pressure ? PRESSURE_UNITS[mapping.pressure.unit] : null;
+		const tempUnit = mapping.temperature ? TEMPERATURE_UNITS[mapping.temperature.unit] : null;
+		this.#total += data.length;
+		for (const row of data) {
+			const cell = (i: number) => row.cells[i];
+			const timeText =
+				mapping.time.date_column !== null
+					? `${cell(mapping.time.date_column) ?? ''} ${cell(mapping.time.column) ?? ''}`
+					: (cell(mapping.time.column) ?? '');
+			const time = reader.read(timeText);
+			if (!time.ok) {
+				problems.push({
+					line: row.line,
+					kind: time.message.includes('does not exist') ? 'nonexistent_time' : 'unreadable_time',
+					message: time.message
+				});
+				continue;
+			}
+			const flow = readNumber(cell(mapping.flow.column), mapping.decimal);
+			if (flow === null) {
+				problems.push({ line: row.line, kind: 'missing_flow', message: 'no flow value' });
+				continue;
+			}
+			if (flow === 'bad') {
 				problems.push({
 					line: row.line,
 					kind: 'unreadable_number',
-					message: `${name} “${cell(col.column)}” is not a number`
+					message: `flow “${cell(mapping.flow.column)}” is not a number`
 				});
-				return 'bad' as const;
+				continue;
 			}
-			return v === null ? null : toSi(v);
-		};
-		const supply = optional(mapping.pressure, 'pressure', pressureUnit?.toSi ?? ((v) => v));
-		const temp = optional(mapping.temperature, 'temperature', tempUnit?.toSi ?? ((v) => v));
-		const rpm = optional(mapping.rpm, 'shaft speed', (v) => v);
-		if (supply === 'bad' || temp === 'bad' || rpm === 'bad') continue;
-		if (time.ambiguous) ambiguous++;
-		if (time.offsetGiven) withOffset++;
-		samples.push({
-			line: row.line,
-			ts: time.ts,
-			flow_lpm: flowUnit.toSi(flow),
-			supply_bar: supply,
-			temp_c: temp,
-			shaft_rpm: rpm
-		});
+			const optional = (
+				col: { column: number } | null,
+				name: string,
+				toSi: (v: number) => number
+			) => {
+				if (!col) return null;
+				const v = readNumber(cell(col.column), mapping.decimal);
+				if (v === 'bad') {
+					problems.push({
+						line: row.line,
+						kind: 'unreadable_number',
+						message: `${name} “${cell(col.column)}” is not a number`
+					});
+					return 'bad' as const;
+				}
+				return v === null ? null : toSi(v);
+			};
+			const supply = optional(mapping.pressure, 'pressure', pressureUnit?.toSi ?? ((v) => v));
+			const temp = optional(mapping.temperature, 'temperature', tempUnit?.toSi ?? ((v) => v));
+			const rpm = optional(mapping.rpm, 'shaft speed', (v) => v);
+			if (supply === 'bad' || temp === 'bad' || rpm === 'bad') continue;
+			if (time.ambiguous) this.#ambiguous++;
+			if (time.offsetGiven) this.#withOffset++;
+			samples.push({
+				line: row.line,
+				ts: time.ts,
+				flow_lpm: flowUnit.toSi(flow),
+				supply_bar: supply,
+				temp_c: temp,
+				shaft_rpm: rpm
+			});
+		}
 	}
-	return { samples, problems, total: data.length, ambiguous, with_offset: withOffset };
+
+	result(): ConvertedRows {
+		return {
+			samples: this.#samples,
+			problems: this.#problems,
+			total: this.#total,
+			ambiguous: this.#ambiguous,
+			with_offset: this.#withOffset
+		};
+	}
 }
 
 /** Median time between consecutive samples, ms (null with fewer than two). */

@@ -20,6 +20,12 @@ function parseOrExplain(text: string, options: Options): unknown {
 	}
 }
 
+function widthChecked(cells: string[], line: number): string[] {
+	if (cells.length > MAX_COLUMNS)
+		throw new TableError(`line ${line} has ${cells.length} columns, more than the ${MAX_COLUMNS} a logger file may have: is the delimiter right?`);
+	return cells;
+}
+
 export function parseTable(
 	text: string,
 	delimiter: Delimiter,
@@ -44,7 +50,7 @@ export function parseTable(
 		const lines = nonEmptyLines(text, eol);
 		const out: TableRow[] = [];
 		for (let i = 0; i < records.length; i++) {
-			if (records[i].some((c) => c !== '')) out.push({ line: lines[i], cells: records[i] });
+			if (records[i].some((c) => c !== '')) out.push({ line: lines[i], cells: widthChecked(records[i], lines[i]) });
 		}
 		return out;
 	}
@@ -60,9 +66,45 @@ export function parseTable(
 		const line = prevEnd + 1 + (r.info.empty_lines - prevEmpty);
 		prevEnd = r.info.lines;
 		prevEmpty = r.info.empty_lines;
-		if (r.record.some((c) => c !== '')) out.push({ line, cells: r.record });
+		if (r.record.some((c) => c !== '')) out.push({ line, cells: widthChecked(r.record, line) });
 	}
 	return out;
+}
+
+/** Cells a row may have: far more than any logger writes, few enough that a preview stays small. */
+export const MAX_COLUMNS = 256;
+
+/** bytes of text parsed between pauses: a slice takes a few tens of milliseconds */
+const SLICE_BYTES = 512 * 1024;
+
+/**
+ * parseTable for a large file without holding up the server: a file without quotes (a record is
+ * a line) is parsed a slice of lines at a time, with `pause()` between slices; a file with quotes
+ * (a cell may span lines) is parsed at once. The rows are the same either way.
+ */
+export async function parseTableInSlices(text: string, delimiter: Delimiter, pause: () => Promise<void>): Promise<TableRow[]> {
+	if (text.includes('"') || text.length <= SLICE_BYTES) return parseTable(text, delimiter);
+	const eol = text.includes('\r\n') ? '\r\n' : text.includes('\n') ? '\n' : '\r';
+	const out: TableRow[] = [];
+	let start = 0;
+	let linesBefore = 0;
+	while (start < text.length) {
+		let end = text.indexOf(eol, Math.min(start + SLICE_BYTES, text.length));
+		end = end < 0 ? text.length : end + eol.length;
+		const slice = text.slice(start, end);
+		// each slice ends just after a line ending, so its line 1 follows the lines before it
+		for (const row of parseTable(slice, delimiter)) out.push({ line: row.line + linesBefore, cells: row.cells });
+		linesBefore += countOf(slice, eol);
+		start = end;
+		if (start < text.length) await pause();
+	}
+	return out;
+}
+
+function countOf(text: string, needle: string): number {
+	let n = 0;
+	for (let i = text.indexOf(needle); i >= 0; i = text.indexOf(needle, i + needle.length)) n++;
+	return n;
 }
 
 /** Numbers (from 1) of the lines with something on them (csv-parse, trimming, skips blank ones). */

@@ -8,13 +8,13 @@
 import type { Kysely } from 'kysely';
 import type { ImportMapping } from '$lib/history/import/mapping';
 import {
-	convertRows,
 	medianInterval,
+	RowConverter,
 	type LoggerSample,
 	type RowProblem
 } from '$lib/history/import/rows';
 import type { ImportReport, PreviewRow } from '$lib/history/import/report';
-import { parseTable } from '$lib/history/import/table';
+import { parseTableInSlices } from '$lib/history/import/table';
 import type { Database } from '../../db/schema';
 import { telemetryPayload } from '../../ingest/payloads';
 
@@ -25,6 +25,9 @@ export const MAX_PROBLEMS = 200;
 const PREVIEW_ROWS = 20;
 /** SQLite takes up to 32 766 parameters a statement; 5 000 keeps each lookup short */
 const LOOKUP_CHUNK = 5_000;
+/** rows converted and checked between pauses: a large file must not hold up live ingest and alarms */
+const ROWS_PER_SLICE = 20_000;
+const pause = () => new Promise<void>((resolve) => setImmediate(resolve));
 
 export interface Analysis {
 	report: ImportReport;
@@ -67,14 +70,22 @@ export async function analyse(
 	}
 ): Promise<Analysis> {
 	const { mapping } = input;
-	const table = parseTable(input.text, mapping.delimiter);
-	const converted = convertRows(table, mapping);
+	const table = await parseTableInSlices(input.text, mapping.delimiter, pause);
+	const converter = new RowConverter(mapping);
+	const data = mapping.header ? table.slice(1) : table;
+	for (let i = 0; i < data.length; i += ROWS_PER_SLICE) {
+		converter.add(data.slice(i, i + ROWS_PER_SLICE));
+		await pause();
+	}
+	const converted = converter.result();
 	const problems: RowProblem[] = [...converted.problems];
 	const byKind: Record<string, number> = {};
 	const latest = input.now + input.maxFutureSkewS * 1000;
 
 	const valid: LoggerSample[] = [];
+	let checked = 0;
 	for (const s of converted.samples) {
+		if (++checked % ROWS_PER_SLICE === 0) await pause();
 		const check = telemetryPayload.safeParse({
 			ts: s.ts,
 			flow_lpm: s.flow_lpm,
