@@ -62,13 +62,15 @@ export async function requestPasswordReset(
 
 	const row = await users.findByEmail(ctx.db, key);
 	if (!row || row.disabled_at !== null) return { ok: true };
-	await queueReset(
+	// not awaited: the answer must come as soon for an account as for an unknown address, or its
+	// timing would tell which addresses have accounts
+	queueReset(
 		ctx,
 		row,
 		false,
 		{ userId: null, name: `reset form (${clientAddress})` },
 		{ requested_from: clientAddress }
-	);
+	).catch((err) => console.error('[aftwater] queueing a password reset failed:', err));
 	return { ok: true };
 }
 
