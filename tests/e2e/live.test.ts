@@ -172,9 +172,13 @@ describe('live watch', () => {
 		gateway.end(true);
 		await server.restart();
 		await expect.poll(() => status.getAttribute('data-status'), { timeout: 10_000 }).not.toBe('live');
+		// while it is down the figures fade, so they are not read as current
+		const figures = page.getByTestId('live-figures');
+		expect(await figures.evaluate((e) => Number(getComputedStyle(e).opacity))).toBeLessThan(1);
 		await startGateway();
 		// the session survives the restart (it is in the database); EventSource reconnects itself
 		await expect.poll(() => status.getAttribute('data-status'), { timeout: 30_000 }).toBe('live');
+		expect(await figures.evaluate((e) => Number(getComputedStyle(e).opacity))).toBe(1);
 		const seen = await page.getByTestId('live-flow').first().textContent();
 		await expect.poll(async () => (await page.getByTestId('live-flow').first().textContent()) !== seen, { timeout: 10_000 }).toBe(true);
 		await context.close();
