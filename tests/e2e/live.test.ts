@@ -78,12 +78,14 @@ describe('live watch', () => {
 		const row = (p: typeof chief.page) => p.locator('[data-alarm-id][data-type="low_flow"]').first();
 		await row(fleet.page).waitFor({ timeout: 5_000 });
 		expect(await row(fleet.page).getAttribute('data-state')).toBe('unacknowledged');
+		// the fleet manager has the alarm's history open before the acknowledgement: it follows
+		await row(fleet.page).getByRole('button', { name: 'History' }).click();
+		await row(fleet.page).locator('ol').waitFor({ timeout: 5_000 });
 		await row(chief.page).getByPlaceholder('What was done (optional)').fill('Standby pump started by hand');
 		await row(chief.page).getByRole('button', { name: 'Acknowledge' }).click();
 		await expect.poll(() => row(fleet.page).getAttribute('data-state'), { timeout: 5_000 }).toBe('acknowledged');
 		await expect.poll(() => row(fleet.page).getByTestId('alarm-state').textContent()).toBe('Acknowledged');
 		// what was done is kept with the acknowledgement, for everyone who reads the alarm's history
-		await row(fleet.page).getByRole('button', { name: 'History' }).click();
 		await expect.poll(() => row(fleet.page).locator('ol').textContent(), { timeout: 5_000 }).toContain('“Standby pump started by hand”');
 
 		// once the alarm sounds the badge gives way to it; the alarm card's buttons stay inside the page
