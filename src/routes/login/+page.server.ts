@@ -7,9 +7,14 @@ import { login } from '$lib/schemas/users';
 import { fieldErrors } from '$lib/server/api/errors';
 import { safeNext } from '$lib/server/auth/next';
 
+/** the demo password the README gives */
+const PUBLISHED_DEMO_PASSWORD = 'aftwater-demo';
+
 export const load: PageServerLoad = async ({ locals, url }) => {
 	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), url.origin));
-	return { demo: context().config.DEMO };
+	const { DEMO, DEMO_PASSWORD } = context().config;
+	// the published default is named on the page; a password set for a demo is not
+	return { demo: DEMO, demoPassword: DEMO && DEMO_PASSWORD === PUBLISHED_DEMO_PASSWORD ? DEMO_PASSWORD : null };
 };
 
 export const actions: Actions = {
