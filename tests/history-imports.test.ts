@@ -120,6 +120,12 @@ describe('upload checks', () => {
 		).toEqual([]);
 	});
 
+	it('an empty file is a 422 that says so', async () => {
+		const res = await upload(chief, oslo, 'empty.csv', '');
+		expect(res.status).toBe(422);
+		expect((await res.json()).error).toMatchObject({ code: 'empty', message: 'the file is empty' });
+	});
+
 	it('a file csv-parse cannot split is a 422 with the reason, and leaves no import behind', async () => {
 		const res = await upload(chief, oslo, 'open-quote.csv', 'ts,flow_lpm\n"2026-01-01T00:00:00Z,100\n2026-01-01T00:00:01Z,101\n');
 		expect(res.status).toBe(422);

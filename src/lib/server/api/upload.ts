@@ -36,6 +36,18 @@ export interface UploadRules {
 /** the multipart envelope adds a few hundred bytes to the file */
 const ENVELOPE_BYTES = 64 * 1024;
 
+const MB = 1_048_576;
+
+/**
+ * "20.03 MB; the limit is 20 MB": a size over a limit in MB (2^20 bytes), with as many decimals
+ * as it takes for the size not to read as the limit itself.
+ */
+export function sizeOverLimit(bytes: number, limit: number): string {
+	let digits = 1;
+	while (digits < 6 && Number((bytes / MB).toFixed(digits)) <= limit / MB) digits++;
+	return `${(bytes / MB).toFixed(digits)} MB; the limit is ${limit / MB} MB`;
+}
+
 /**
  * A body sent without a length (chunked) is cut off by the server at BODY_SIZE_LIMIT with an error
  * of status 413 (SvelteKit's adapter-node): said as such, not as a failure of the server.

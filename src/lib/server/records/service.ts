@@ -21,7 +21,7 @@ import type {
 	WearReadingBody
 } from '$lib/schemas/records';
 import { ApiError } from '../api/errors';
-import type { UploadRules } from '../api/upload';
+import { sizeOverLimit, type UploadRules } from '../api/upload';
 import { audit, type Actor } from '../audit';
 import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../db/schema';
@@ -295,7 +295,7 @@ export const attachmentTooLarge = (bytes: number) =>
 	new ApiError(
 		413,
 		'too_large',
-		`the file is ${(bytes / 1_048_576).toFixed(1)} MB; the limit is ${MAX_ATTACHMENT_BYTES / 1_048_576} MB`
+		`the file is ${sizeOverLimit(bytes, MAX_ATTACHMENT_BYTES)}`
 	);
 
 /** How the records read an attached file, from the API or the page's form. */

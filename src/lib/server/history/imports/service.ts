@@ -11,6 +11,7 @@ import { suggestMapping } from '$lib/history/import/mapping';
 import { checkUploadType, MAX_UPLOAD_BYTES, sniffText } from '$lib/history/import/sniff';
 import { detectDelimiter, tableHead, TableError, type TableRow } from '$lib/history/import/table';
 import { ApiError } from '../../api/errors';
+import { sizeOverLimit } from '../../api/upload';
 import { audit, type Actor } from '../../audit';
 import type { AppContext } from '../../context';
 import type { ShaftHistory } from '../shaft-context';
@@ -45,7 +46,8 @@ export interface ImportPreview {
 
 function textOf(bytes: Uint8Array): { text: string; encoding: string } {
 	const sniffed = sniffText(bytes);
-	if (!sniffed.ok) throw new ApiError(415, sniffed.code, sniffed.message);
+	// an empty file is of the right kind, with nothing in it: 422, not 415
+	if (!sniffed.ok) throw new ApiError(sniffed.code === 'empty' ? 422 : 415, sniffed.code, sniffed.message);
 	return { text: sniffed.text, encoding: sniffed.encoding };
 }
 
@@ -109,7 +111,7 @@ export async function createImport(
 		throw new ApiError(
 			413,
 			'too_large',
-			`the file is ${(file.bytes.length / 1_048_576).toFixed(1)} MB; the limit is ${MAX_UPLOAD_BYTES / 1_048_576} MB — split the logger file by month`
+			`the file is ${sizeOverLimit(file.bytes.length, MAX_UPLOAD_BYTES)} — split the logger file by month`
 		);
 	}
 	const table = tableOf(file.bytes);

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { ApiError } from '$lib/server/api/errors';
 import { requirePermission, route } from '$lib/server/api/handler';
-import { readUpload } from '$lib/server/api/upload';
+import { readUpload, sizeOverLimit } from '$lib/server/api/upload';
 import { actorOf } from '$lib/server/audit';
 import { context } from '$lib/server/context';
 import { listImports } from '$lib/server/history/imports/repository';
@@ -41,5 +41,5 @@ const tooLarge = (bytes: number) =>
 	new ApiError(
 		413,
 		'too_large',
-		`the upload is ${(bytes / 1_048_576).toFixed(1)} MB; the limit is ${MAX_UPLOAD_BYTES / 1_048_576} MB — split the logger file by month`
+		`the upload is ${sizeOverLimit(bytes, MAX_UPLOAD_BYTES)} — split the logger file by month`
 	);
