@@ -99,6 +99,9 @@ describe('fleet stream', () => {
 		expect(await ids('shelved')).not.toContain(alarm.alarm.id);
 		expect(await ids('active')).toContain(alarm.alarm.id);
 		expect((await chief.get('/api/alarms?state=asleep')).status).toBe(400);
+		// numbers in a URL are decimal digits: not hex, not exponents
+		for (const limit of ['0x10', '1e3', '-1', '2.5']) expect((await chief.get(`/api/alarms?limit=${limit}`)).status, limit).toBe(400);
+		expect((await chief.get('/api/alarms?limit=16')).status).toBe(200);
 		sse.close();
 		gw.end();
 	});

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { wholeNumber } from './query';
 import { ALARM_TYPES } from '$lib/alarms/types';
 import { ALARM_STATES, MAX_SHELVE_S } from '$lib/alarms/state-machine';
 
@@ -30,5 +31,5 @@ export const alarmListQuery = z.object({
 	vessel: z.string().max(40).optional(),
 	from: z.string().optional(),
 	to: z.string().optional(),
-	limit: z.coerce.number().int().min(1).max(5000).optional()
+	limit: wholeNumber(1, 5000).optional()
 });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { wholeNumber } from '$lib/schemas/query';
 import { readQuery, requirePermission, route } from '$lib/server/api/handler';
 import { context } from '$lib/server/context';
 import { OUTBOX_STATUSES, transportInfo } from '$lib/server/mail/admin';
@@ -6,7 +7,7 @@ import { listOutbox, outboxCounts } from '$lib/server/mail/outbox';
 
 const query = z.object({
 	status: z.enum(OUTBOX_STATUSES).optional(),
-	limit: z.coerce.number().int().min(1).max(500).default(100)
+	limit: wholeNumber(1, 500).default(100)
 });
 
 /** The outbox: counts by state and the messages (without bodies), newest first. */

@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { wholeNumber } from '$lib/schemas/query';
 import { readQuery, requirePermission, route } from '$lib/server/api/handler';
 import { context } from '$lib/server/context';
 import { listSink, transportInfo } from '$lib/server/mail/admin';
 
 const query = z.object({
-	limit: z.coerce.number().int().min(1).max(500).default(100),
+	limit: wholeNumber(1, 500).default(100),
 	to: z.string().max(254).optional()
 });
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { wholeNumber } from '$lib/schemas/query';
 import { readQuery, route } from '$lib/server/api/handler';
 import { ApiError } from '$lib/server/api/errors';
 import { context } from '$lib/server/context';
@@ -7,9 +8,9 @@ import { streamAccess } from '$lib/server/live/access';
 
 const query = z.object({
 	/** minutes of history in the first snapshot */
-	window: z.coerce.number().int().min(5).max(60).default(15),
+	window: wholeNumber(5, 60).default(15),
 	/** for clients that cannot set the Last-Event-ID header */
-	last_event_id: z.coerce.number().int().positive().optional()
+	last_event_id: wholeNumber(1, Number.MAX_SAFE_INTEGER).optional()
 });
 
 /**
