@@ -107,6 +107,22 @@ describe('fleet stream', () => {
 	});
 });
 
+describe('fleet state', () => {
+	it('GET /api/vessels gives the separator reading with its ΔP alarm setpoint', async () => {
+		const gw = await connectGateway(server.mqttPort, 'corrin-bay');
+		await gw.publishAsync(`aftwater/v1/corrin-bay/separator/state`, JSON.stringify({ ts: Date.now(), dp_bar: 0.31, purge_valve: 'closed' }), { qos: 1 });
+		let sep: { dp_bar: number; dp_max_bar: number } | null = null;
+		for (let i = 0; i < 50 && !sep; i++) {
+			const { vessels } = await (await chief.get('/api/vessels')).json();
+			sep = vessels.find((v: { code: string }) => v.code === 'corrin-bay').separator;
+			if (!sep) await new Promise((r) => setTimeout(r, 100));
+		}
+		// 0.8 bar: the setpoint's default (src/lib/alarms/settings.ts), not changed in this test
+		expect(sep).toMatchObject({ dp_bar: 0.31, dp_max_bar: 0.8 });
+		gw.end();
+	});
+});
+
 describe('access changes', () => {
 	it('a user taken off a vessel loses its open stream at once, and may not open it again', async () => {
 		const admin = await signIn(server.url, 'admin@demo.test');

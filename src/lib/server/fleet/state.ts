@@ -35,7 +35,13 @@ export async function fleetWithState(ctx: AppContext, ids: number[] | 'all') {
 		return {
 			...v,
 			shafts,
-			separator: separator && { ...separator, state: glanceOf(separatorAlarms), alarms: separatorAlarms },
+			separator: separator && {
+				...separator,
+				// the ΔP alarm setpoint, so the reading is seen against it
+				dp_max_bar: ctx.services.alarms?.settings.forVessel(v.id).separator_dp_max_bar ?? null,
+				state: glanceOf(separatorAlarms),
+				alarms: separatorAlarms
+			},
 			gateway,
 			state,
 			worst_alarm: vesselAlarms[0] ?? null
